@@ -1,0 +1,3 @@
+module fieldtab
+
+go 1.26
