@@ -1,0 +1,245 @@
+package main
+
+import (
+	"bufio"
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+
+	"fieldtab/measure"
+)
+
+// calcCommand is one `fieldtab calc` subcommand: its flags and the computation
+// that turns them into one JSON object.
+type calcCommand struct {
+	name    string
+	summary string
+	flags   []flagSpec
+	run     func(p *params) (*obj, error)
+}
+
+// commonFlags are accepted by every calc subcommand.
+var commonFlags = []flagSpec{
+	{name: "units", usage: "ip or si", def: "ip"},
+	{name: "batch", usage: "read JSON lines of flags on stdin, write one JSON line each", bool: true},
+}
+
+func calcCommands() []*calcCommand {
+	return []*calcCommand{
+		psychroCommand(), airCommand(), waterCommand(), valveCommand(),
+		traverseCommand(), outletCommand(), fanCommand(), expectedCommand(),
+	}
+}
+
+func (m *Main) runCalc(ctx context.Context, args []string) error {
+	cmds := calcCommands()
+	if len(args) == 0 || args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
+		m.calcUsage(cmds, args)
+		if len(args) == 0 {
+			return errUsage
+		}
+		return nil
+	}
+	var cmd *calcCommand
+	for _, c := range cmds {
+		if c.name == args[0] {
+			cmd = c
+		}
+	}
+	if cmd == nil {
+		fmt.Fprintf(m.Stderr, "fieldtab calc: unknown calculation %q\n", args[0])
+		m.calcUsage(cmds, nil)
+		return errUsage
+	}
+	specs := append(append([]flagSpec{}, commonFlags...), cmd.flags...)
+	base, err := parseFlags(specs, args[1:])
+	if err != nil {
+		fmt.Fprintf(m.Stderr, "fieldtab calc %s: %v\n", cmd.name, err)
+		return exitError{code: 2}
+	}
+	if base["batch"] == "true" {
+		delete(base, "batch")
+		return m.runCalcBatch(ctx, cmd, specs, base)
+	}
+	out, err := evalCalc(cmd, base)
+	if err != nil {
+		fmt.Fprintf(m.Stderr, "fieldtab calc %s: %v\n", cmd.name, err)
+		return exitError{code: 1}
+	}
+	var buf bytes.Buffer
+	if err := json.Indent(&buf, appendJSON(nil, out), "", "  "); err != nil {
+		return fmt.Errorf("calc %s: formatting output: %w", cmd.name, err)
+	}
+	buf.WriteByte('\n')
+	_, err = m.Stdout.Write(buf.Bytes())
+	return err
+}
+
+// evalCalc runs cmd on one set of flag values.
+func evalCalc(cmd *calcCommand, vals map[string]string) (*obj, error) {
+	u, err := measure.ParseUnitSystem(valueOr(vals, "units", "ip"))
+	if err != nil {
+		return nil, &flagError{flag: "--units", msg: "accepted values are ip and si"}
+	}
+	out, err := cmd.run(&params{units: u, vals: vals})
+	return out, inUserUnits(err, u)
+}
+
+func valueOr(m map[string]string, k, def string) string {
+	if v, ok := m[k]; ok {
+		return v
+	}
+	return def
+}
+
+// runCalcBatch reads one JSON object of flags per line on stdin. Flags given on
+// the command line apply to every line; a line's own keys override them. A bad
+// line yields an error object and the run goes on; the exit status is 1 if any
+// line failed.
+func (m *Main) runCalcBatch(ctx context.Context, cmd *calcCommand, specs []flagSpec, base map[string]string) error {
+	byName := specIndex(specs)
+	sc := bufio.NewScanner(m.Stdin)
+	sc.Buffer(make([]byte, 64*1024), 1<<20)
+	w := bufio.NewWriterSize(m.Stdout, 64*1024)
+	failed := 0
+	vals := make(map[string]string, len(base)+8)
+	var line []byte
+	for n := 1; sc.Scan(); n++ {
+		if n%4096 == 0 && ctx.Err() != nil {
+			break
+		}
+		text := bytes.TrimSpace(sc.Bytes())
+		if len(text) == 0 {
+			continue
+		}
+		clear(vals)
+		for k, v := range base {
+			vals[k] = v
+		}
+		var out *obj
+		err := batchLineFlags(text, byName, vals)
+		if err == nil {
+			out, err = evalCalc(cmd, vals)
+		}
+		if err != nil {
+			failed++
+			out = batchError(n, err)
+		}
+		line = appendJSON(line[:0], out)
+		line = append(line, '\n')
+		if _, err := w.Write(line); err != nil {
+			return err
+		}
+	}
+	if err := sc.Err(); err != nil {
+		return fmt.Errorf("calc %s --batch: reading stdin: %w", cmd.name, err)
+	}
+	if err := w.Flush(); err != nil {
+		return err
+	}
+	if failed > 0 {
+		fmt.Fprintf(m.Stderr, "fieldtab calc %s: %d line(s) had errors\n", cmd.name, failed)
+		return exitError{code: 1}
+	}
+	return nil
+}
+
+// batchLineFlags decodes one JSON line into flag values. Numbers keep their
+// text exactly; arrays become comma-separated lists.
+func batchLineFlags(text []byte, byName map[string]flagSpec, vals map[string]string) error {
+	dec := json.NewDecoder(bytes.NewReader(text))
+	dec.UseNumber()
+	var raw map[string]any
+	if err := dec.Decode(&raw); err != nil {
+		return &flagError{flag: "(line)", msg: "not a JSON object of flags: " + err.Error()}
+	}
+	if dec.More() {
+		return &flagError{flag: "(line)", msg: "more than one JSON value on the line"}
+	}
+	for k, v := range raw {
+		spec, ok := byName[k]
+		if !ok || k == "batch" {
+			return &flagError{flag: "--" + k, msg: "unknown flag for this calculation"}
+		}
+		s, err := batchValue(v)
+		if err != nil {
+			return &flagError{flag: "--" + k, msg: err.Error()}
+		}
+		if s == "" && v == nil {
+			delete(vals, k)
+			continue
+		}
+		if spec.bool && s != "true" && s != "false" {
+			return &flagError{flag: "--" + k, msg: "takes true or false"}
+		}
+		vals[k] = s
+	}
+	return nil
+}
+
+func batchValue(v any) (string, error) {
+	switch v := v.(type) {
+	case nil:
+		return "", nil
+	case json.Number:
+		return v.String(), nil
+	case string:
+		return v, nil
+	case bool:
+		if v {
+			return "true", nil
+		}
+		return "false", nil
+	case []any:
+		parts := make([]string, len(v))
+		for i, x := range v {
+			n, ok := x.(json.Number)
+			if !ok {
+				return "", fmt.Errorf("item %d of the list is not a number", i+1)
+			}
+			parts[i] = n.String()
+		}
+		return strings.Join(parts, ","), nil
+	}
+	return "", errors.New("takes a number, a string, true/false or a list of numbers")
+}
+
+func batchError(line int, err error) *obj {
+	o := &obj{}
+	o.set("line", line).set("error", err.Error())
+	var fe *flagError
+	if errors.As(err, &fe) {
+		o.set("flag", fe.flag)
+	}
+	return o
+}
+
+func (m *Main) calcUsage(cmds []*calcCommand, args []string) {
+	if len(args) > 1 {
+		for _, c := range cmds {
+			if c.name == args[1] {
+				fmt.Fprintf(m.Stderr, "usage: fieldtab calc %s [flags]\n%s\n\nflags:\n", c.name, c.summary)
+				printFlags(m.Stderr, append(append([]flagSpec{}, c.flags...), commonFlags...))
+				return
+			}
+		}
+	}
+	fmt.Fprint(m.Stderr, "usage: fieldtab calc <calculation> [flags]   (fieldtab calc help <calculation> for its flags)\n\ncalculations:\n")
+	for _, c := range cmds {
+		fmt.Fprintf(m.Stderr, "  %-10s %s\n", c.name, c.summary)
+	}
+}
+
+func printFlags(w io.Writer, specs []flagSpec) {
+	for _, s := range specs {
+		def := ""
+		if s.def != "" {
+			def = " (default " + s.def + ")"
+		}
+		fmt.Fprintf(w, "  --%-16s %s%s\n", s.name, s.usage, def)
+	}
+}

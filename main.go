@@ -1,0 +1,90 @@
+// Command fieldtab is a field tool for HVAC test-and-balance and commissioning
+// technicians. This file holds the command-line entry point; each subcommand
+// lives in a cmd_*.go file of its own.
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"syscall"
+)
+
+func main() {
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	m := NewMain(os.Stdin, os.Stdout, os.Stderr)
+	err := m.Run(ctx, os.Args[1:])
+	stop()
+	if cerr := m.Close(); err == nil {
+		err = cerr
+	}
+	os.Exit(exitCode(err, m.Stderr))
+}
+
+// Main is the program with its standard streams, so tests can run it in-process
+// and in parallel: nothing here reads globals.
+type Main struct {
+	Stdin  io.Reader
+	Stdout io.Writer
+	Stderr io.Writer
+}
+
+// NewMain returns a Main reading and writing the given streams.
+func NewMain(stdin io.Reader, stdout, stderr io.Writer) *Main {
+	return &Main{Stdin: stdin, Stdout: stdout, Stderr: stderr}
+}
+
+// errUsage marks an error whose message has already been printed with usage.
+var errUsage = errors.New("usage")
+
+// exitError carries a non-zero exit status whose message was already written.
+type exitError struct{ code int }
+
+func (e exitError) Error() string { return fmt.Sprintf("exit status %d", e.code) }
+
+// Run executes one command line (without the program name).
+func (m *Main) Run(ctx context.Context, args []string) error {
+	if len(args) == 0 {
+		m.usage()
+		return errUsage
+	}
+	switch args[0] {
+	case "calc":
+		return m.runCalc(ctx, args[1:])
+	case "help", "-h", "--help":
+		m.usage()
+		return nil
+	}
+	fmt.Fprintf(m.Stderr, "fieldtab: unknown command %q\n", args[0])
+	m.usage()
+	return errUsage
+}
+
+// Close releases what Run opened. Nothing yet; later commands hold a database.
+func (m *Main) Close() error { return nil }
+
+func (m *Main) usage() {
+	fmt.Fprint(m.Stderr, `usage: fieldtab <command> [flags]
+
+commands:
+  calc     field arithmetic with JSON output (fieldtab calc help)
+`)
+}
+
+// exitCode turns Run's error into a process exit status, printing it if needed.
+func exitCode(err error, stderr io.Writer) int {
+	var ee exitError
+	switch {
+	case err == nil:
+		return 0
+	case errors.Is(err, errUsage):
+		return 2
+	case errors.As(err, &ee):
+		return ee.code
+	}
+	fmt.Fprintln(stderr, "fieldtab:", err)
+	return 1
+}
