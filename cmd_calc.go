@@ -209,11 +209,11 @@ func batchValue(v any) (string, error) {
 }
 
 func batchError(line int, err error) *obj {
-	o := &obj{}
-	o.set("line", line).set("error", err.Error())
+	o := newObj(12)
+	o.integer("line", line).str("error", err.Error())
 	var fe *flagError
 	if errors.As(err, &fe) {
-		o.set("flag", fe.flag)
+		o.str("flag", fe.flag)
 	}
 	return o
 }

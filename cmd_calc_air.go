@@ -32,28 +32,46 @@ func sitePressure(p *params) (float64, error) {
 	return pres, flagErr(err, inputFlags{"elevation": "elevation"})
 }
 
-// airSpec reads a dry bulb and one humidity flag: prefix "" gives --db, --rh,
-// --wb, --dp; prefix "enter-" gives --enter-db, --enter-rh and so on.
-func airSpec(p *params, prefix string) (measure.AirSpec, error) {
-	db, err := p.float(prefix + "db")
+// stateFlagNames are the flags of one air state: --db, --rh, --wb, --dp, or the
+// same behind a prefix such as "enter-". Built once, not per line of --batch.
+type stateFlagNames struct{ db, rh, wb, dp string }
+
+func newStateFlagNames(prefix string) stateFlagNames {
+	return stateFlagNames{prefix + "db", prefix + "rh", prefix + "wb", prefix + "dp"}
+}
+
+var (
+	plainState = newStateFlagNames("")
+	enterState = newStateFlagNames("enter-")
+	leaveState = newStateFlagNames("leave-")
+)
+
+// airSpec reads a dry bulb and exactly one humidity flag.
+func airSpec(p *params, f stateFlagNames) (measure.AirSpec, error) {
+	db, err := p.float(f.db)
 	if err != nil {
 		return measure.AirSpec{}, err
 	}
-	which, err := p.oneOf(prefix+"rh", prefix+"wb", prefix+"dp")
+	which, err := p.oneOf(f.rh, f.wb, f.dp)
 	if err != nil {
 		return measure.AirSpec{}, err
 	}
-	if which == "" {
-		return measure.AirSpec{}, &flagError{flag: "--" + prefix + "rh",
-			msg: "give one of --" + prefix + "rh, --" + prefix + "wb or --" + prefix + "dp"}
+	var kind measure.HumidityKind
+	switch which {
+	case f.rh:
+		kind = measure.RelHum
+	case f.wb:
+		kind = measure.WetBulb
+	case f.dp:
+		kind = measure.DewPoint
+	default:
+		return measure.AirSpec{}, &flagError{flag: "--" + f.rh,
+			msg: "give one of --" + f.rh + ", --" + f.wb + " or --" + f.dp}
 	}
 	h, err := p.float(which)
 	if err != nil {
 		return measure.AirSpec{}, err
 	}
-	kind := map[string]measure.HumidityKind{
-		prefix + "rh": measure.RelHum, prefix + "wb": measure.WetBulb, prefix + "dp": measure.DewPoint,
-	}[which]
 	return measure.AirSpec{DryBulb: db, Kind: kind, Humidity: h}, nil
 }
 
@@ -82,17 +100,17 @@ var coilFlags = func() inputFlags {
 
 func stateObj(s measure.AirState) *obj {
 	o := newObj(11)
-	o.set("units", s.Units.String()).
-		set("dry_bulb", num(s.DryBulb)).
-		set("wet_bulb", num(s.WetBulb)).
-		set("dew_point", num(s.DewPoint)).
-		set("rel_hum", num(s.RelHum)).
-		set("hum_ratio", num(s.HumRatio)).
-		set("enthalpy", num(s.Enthalpy)).
-		set("spec_volume", num(s.SpecVolume)).
-		set("density", num(s.Density)).
-		set("pressure", num(s.Pressure)).
-		set("vap_pres", num(s.VapPres))
+	o.str("units", s.Units.String()).
+		num("dry_bulb", s.DryBulb).
+		num("wet_bulb", s.WetBulb).
+		num("dew_point", s.DewPoint).
+		num("rel_hum", s.RelHum).
+		num("hum_ratio", s.HumRatio).
+		num("enthalpy", s.Enthalpy).
+		num("spec_volume", s.SpecVolume).
+		num("density", s.Density).
+		num("pressure", s.Pressure).
+		num("vap_pres", s.VapPres)
 	return o
 }
 
@@ -111,7 +129,7 @@ func psychroCommand() *calcCommand {
 			if err != nil {
 				return nil, err
 			}
-			spec, err := airSpec(p, "")
+			spec, err := airSpec(p, plainState)
 			if err != nil {
 				return nil, err
 			}
@@ -161,11 +179,11 @@ func runAir(p *params) (*obj, error) {
 	if err != nil {
 		return nil, &flagError{flag: "--flow-at", msg: "accepted values are standard, enter and leave"}
 	}
-	enterSpec, err := airSpec(p, "enter-")
+	enterSpec, err := airSpec(p, enterState)
 	if err != nil {
 		return nil, err
 	}
-	leaveSpec, err := airSpec(p, "leave-")
+	leaveSpec, err := airSpec(p, leaveState)
 	if err != nil {
 		return nil, err
 	}
@@ -182,16 +200,16 @@ func runAir(p *params) (*obj, error) {
 	if err != nil {
 		return nil, flagErr(err, coilFlags)
 	}
-	o := &obj{}
-	o.set("units", u.String()).
-		set("process", res.Process).
-		set("total", num(res.Total.In(u))).
-		set("sensible", num(res.Sensible.In(u))).
-		set("latent", num(res.Latent.In(u))).
-		set("shr", num(res.SHR)).
-		set("mass_flow", num(res.MassFlow.In(u))).
-		set("enter", stateObj(enter)).
-		set("leave", stateObj(leave))
+	o := newObj(12)
+	o.str("units", u.String()).
+		str("process", res.Process).
+		num("total", res.Total.In(u)).
+		num("sensible", res.Sensible.In(u)).
+		num("latent", res.Latent.In(u)).
+		num("shr", res.SHR).
+		num("mass_flow", res.MassFlow.In(u)).
+		sub("enter", stateObj(enter)).
+		sub("leave", stateObj(leave))
 
 	if p.has("flow-acc-pct") || p.has("temp-acc") || p.has("rh-acc") {
 		var acc measure.AirAccuracy
@@ -210,9 +228,9 @@ func runAir(p *params) (*obj, error) {
 		if err != nil {
 			return nil, flagErr(err, coilFlags)
 		}
-		uo := &obj{}
-		uo.set("total", num(unc.Total.In(u))).set("sensible", num(unc.Sensible.In(u)))
-		o.set("uncertainty", uo)
+		uo := newObj(12)
+		uo.num("total", unc.Total.In(u)).num("sensible", unc.Sensible.In(u))
+		o.sub("uncertainty", uo)
 	}
 	return o, nil
 }

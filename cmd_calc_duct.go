@@ -102,7 +102,7 @@ func ductDensity(p *params) (measure.Density, string, error) {
 	if err != nil {
 		return 0, "", err
 	}
-	spec, err := airSpec(p, "")
+	spec, err := airSpec(p, plainState)
 	if err != nil {
 		return 0, "", err
 	}
@@ -165,31 +165,31 @@ func runTraverse(p *params) (*obj, error) {
 		}
 		res = &r
 	}
-	o := &obj{}
-	o.set("units", u.String()).
-		set("area", num(area.In(u))).
-		set("density", num(rho.In(u))).
-		set("density_basis", basis)
+	o := newObj(12)
+	o.str("units", u.String()).
+		num("area", area.In(u)).
+		num("density", rho.In(u)).
+		str("density_basis", basis)
 	points := make([]*obj, len(pts))
 	for i, pt := range pts {
-		po := &obj{}
+		po := newObj(12)
 		if layout.Shape == measure.Rectangular {
-			po.set("x", num(pt.X.DuctSizeIn(u))).set("y", num(pt.Y.DuctSizeIn(u)))
+			po.num("x", pt.X.DuctSizeIn(u)).num("y", pt.Y.DuctSizeIn(u))
 		} else {
-			po.set("diameter", pt.Diameter).set("depth", num(pt.Depth.DuctSizeIn(u)))
+			po.integer("diameter", pt.Diameter).num("depth", pt.Depth.DuctSizeIn(u))
 		}
 		if res != nil {
-			po.set("velocity", num(res.Velocities[i].In(u)))
+			po.num("velocity", res.Velocities[i].In(u))
 		}
 		points[i] = po
 	}
-	o.set("points", points)
+	o.list("points", points)
 	warnings := []string{}
 	if res != nil {
-		o.set("mean_velocity", num(res.MeanVelocity.In(u))).set("flow", num(res.Flow.AirIn(u)))
+		o.num("mean_velocity", res.MeanVelocity.In(u)).num("flow", res.Flow.AirIn(u))
 		warnings = append(warnings, res.Warnings...)
 	}
-	o.set("warnings", warnings)
+	o.strs("warnings", warnings)
 	return o, nil
 }
 
@@ -278,15 +278,15 @@ func runOutlet(p *params) (*obj, error) {
 		return nil, flagErr(err, inputFlags{"measured": which, "design": "design", "band_low_pct": "tol-low",
 			"band_high_pct": "tol-high", "accuracy_pct": "acc-pct", "accuracy_abs": "acc-abs"})
 	}
-	o := &obj{}
-	bo := &obj{}
-	bo.set("low", num(res.Low)).set("high", num(res.High))
-	o.set("units", u.String()).
-		set("flow", num(flow.AirIn(u))).
-		set("percent_of_design", num(res.PercentOfDesign)).
-		set("status", string(res.Status)).
-		set("band", bo).
-		set("uncertainty", num(res.Uncertainty))
+	o := newObj(12)
+	bo := newObj(12)
+	bo.num("low", res.Low).num("high", res.High)
+	o.str("units", u.String()).
+		num("flow", flow.AirIn(u)).
+		num("percent_of_design", res.PercentOfDesign).
+		str("status", string(res.Status)).
+		sub("band", bo).
+		num("uncertainty", res.Uncertainty)
 	return o, nil
 }
 
@@ -342,16 +342,16 @@ func runFan(p *params) (*obj, error) {
 	if err != nil {
 		return nil, flagErr(err, names)
 	}
-	o := &obj{}
-	o.set("units", u.String()).set("rpm", num(next.RPM))
+	o := newObj(12)
+	o.str("units", u.String()).num("rpm", next.RPM)
 	if p.has("sp") {
-		o.set("sp", num(next.StaticPressure.DuctIn(u)))
+		o.num("sp", next.StaticPressure.DuctIn(u))
 	}
 	if p.has("bhp") {
 		if u == measure.SI {
-			o.set("bhp", num(next.Power.W()))
+			o.num("bhp", next.Power.W())
 		} else {
-			o.set("bhp", num(next.Power.HP()))
+			o.num("bhp", next.Power.HP())
 		}
 	}
 	if p.has("motor-sheave") {
@@ -363,7 +363,7 @@ func runFan(p *params) (*obj, error) {
 		if err != nil {
 			return nil, flagErr(err, names)
 		}
-		o.set("motor_sheave", num(sheave.DuctSizeIn(u)))
+		o.num("motor_sheave", sheave.DuctSizeIn(u))
 		if p.has("motor-rpm") {
 			mrpm, err := p.float("motor-rpm")
 			if err != nil {
@@ -373,7 +373,7 @@ func runFan(p *params) (*obj, error) {
 			if err != nil {
 				return nil, flagErr(err, names)
 			}
-			o.set("fan_sheave", num(fanSheave.DuctSizeIn(u)))
+			o.num("fan_sheave", fanSheave.DuctSizeIn(u))
 		}
 	} else if p.has("motor-rpm") {
 		return nil, &flagError{flag: "--motor-rpm", msg: "needs --motor-sheave"}
@@ -427,7 +427,7 @@ func runExpected(p *params) (*obj, error) {
 	if err != nil {
 		return nil, flagErr(err, inputFlags{"ewb": "ewb", "odb": "odb", "flow": "flow"})
 	}
-	o := &obj{}
-	o.set("units", u.String()).set("total", num(total.In(u))).set("sensible", num(sensible.In(u)))
+	o := newObj(12)
+	o.str("units", u.String()).num("total", total.In(u)).num("sensible", sensible.In(u))
 	return o, nil
 }

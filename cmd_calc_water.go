@@ -52,14 +52,14 @@ func runWater(p *params) (*obj, error) {
 	if err != nil {
 		return nil, flagErr(err, waterFlags)
 	}
-	o := &obj{}
-	o.set("units", u.String()).
-		set("process", res.Process).
-		set("capacity", num(res.Capacity.In(u))).
-		set("mass_flow", num(res.MassFlow.In(u))).
-		set("density", num(res.Density.In(u))).
-		set("specific_heat", num(res.SpecificHeat.In(u))).
-		set("mean_temp", num(res.MeanTemp.In(u)))
+	o := newObj(12)
+	o.str("units", u.String()).
+		str("process", res.Process).
+		num("capacity", res.Capacity.In(u)).
+		num("mass_flow", res.MassFlow.In(u)).
+		num("density", res.Density.In(u)).
+		num("specific_heat", res.SpecificHeat.In(u)).
+		num("mean_temp", res.MeanTemp.In(u))
 	return o, nil
 }
 
@@ -128,7 +128,7 @@ func runValve(p *params) (*obj, error) {
 	if err != nil {
 		return nil, flagErr(err, inputFlags{"cv": "cv", "kv": "kv", "dp": "dp", "sg": "sg"})
 	}
-	o := &obj{}
-	o.set("units", u.String()).set("flow", num(q.WaterIn(u)))
+	o := newObj(12)
+	o.str("units", u.String()).num("flow", q.WaterIn(u))
 	return o, nil
 }
