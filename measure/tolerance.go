@@ -64,7 +64,9 @@ const (
 // interval [design·(1−LowPct/100), design·(1+HighPct/100)]. The result is within
 // when the whole interval lies inside the band, low or high when it lies wholly
 // below or above, and undetermined when it straddles a limit (or touches one from
-// outside). measured, design and acc.Abs share one unit, any unit.
+// outside). measured, design and acc.Abs share one unit, any unit. Limits are
+// compared with a slack of 1e-9 of design, so a reading exactly on a limit stays
+// on it after a round trip through another unit (275 cfm → m³/s → cfm).
 //
 // Errors: *InputError for "measured" (0 to 1e12), "design" (above 0; 1e-9 to
 // 1e12), "band_low_pct", "band_high_pct", "accuracy_pct" (0 to 100) and
@@ -105,12 +107,13 @@ func CheckTolerance(measured, design float64, band Band, acc Accuracy) (Toleranc
 		High:            high,
 		Uncertainty:     u,
 	}
+	eps := design * 1e-9
 	switch {
-	case lo >= low && hi <= high:
+	case lo >= low-eps && hi <= high+eps:
 		r.Status = StatusWithin
-	case hi < low:
+	case hi < low-eps:
 		r.Status = StatusLow
-	case lo > high:
+	case lo > high+eps:
 		r.Status = StatusHigh
 	default:
 		r.Status = StatusUndetermined

@@ -164,3 +164,41 @@ func FuzzCheckTolerance(f *testing.F) {
 		}
 	})
 }
+
+// A reading exactly on a limit must stay on it after the unit round trip every
+// caller makes (cfm in, m³/s stored, cfm out): 275 of 250 cfm is +10 %, within a
+// ±10 % band (the band is closed).
+func TestToleranceLimitAfterUnitRoundTrip(t *testing.T) {
+	for _, tc := range []struct {
+		name             string
+		measured, design float64
+	}{
+		{"High275of250", CFM(275).CFM(), 250},
+		{"Low81of90", CFM(81).CFM(), 90},
+		{"HighFactor", mustOutletFlowHood(t, CFM(200), 1.1).CFM(), 200},
+		{"LowSI", LitersPerSecond(45).Lps(), 50},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			r, err := CheckTolerance(tc.measured, tc.design, Band{10, 10}, Accuracy{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if r.Status != StatusWithin {
+				t.Errorf("%v of %v at ±10 %%: %s, want within (on the limit)", tc.measured, tc.design, r.Status)
+			}
+		})
+	}
+	// Just outside the slack is still out.
+	if r, _ := CheckTolerance(275.001, 250, Band{10, 10}, Accuracy{}); r.Status != StatusHigh {
+		t.Errorf("275.001 of 250: %s, want high", r.Status)
+	}
+}
+
+func mustOutletFlowHood(t *testing.T, q VolumeFlow, factor float64) VolumeFlow {
+	t.Helper()
+	f, err := OutletFlowHood(q, factor)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return f
+}

@@ -382,10 +382,14 @@ func (l TraverseLayout) Warnings() []string {
 		return nil
 	}
 	if l.Shape == Round {
+		var w []string
 		if l.Diameters < 2 {
-			return []string{"one diameter only: traverse two diameters at 90° to each other to catch an uneven profile"}
+			w = append(w, "one diameter only: traverse two diameters at 90° to each other to catch an uneven profile")
 		}
-		return nil
+		if msg := l.wallClearanceWarning(); msg != "" {
+			w = append(w, msg)
+		}
+		return w
 	}
 	var w []string
 	for _, s := range []struct {
@@ -402,6 +406,33 @@ func (l TraverseLayout) Warnings() []string {
 		w = append(w, fmt.Sprintf("this layout has %d points; a rectangular traverse should have at least %d", n, minRectTotalPoints))
 	}
 	return w
+}
+
+// wallClearanceWarning flags round-duct points too near the wall for a pitot
+// tube to read in the main flow: US EPA Method 1 (40 CFR 60 App. A-1) keeps
+// points at least 0.5 in from the wall in ducts of 24 in or less and 1.0 in in
+// larger ones (from memory, not confirmed against the text). The points are not
+// moved; the technician decides.
+func (l TraverseLayout) wallClearanceWarning() string {
+	minGap := Inches(0.5)
+	if l.Diameter > Inches(24) {
+		minGap = Inches(1)
+	}
+	pts, err := l.Points()
+	if err != nil {
+		return ""
+	}
+	near := 0
+	for _, p := range pts {
+		if p.Depth < minGap || l.Diameter-p.Depth < minGap {
+			near++
+		}
+	}
+	if near == 0 {
+		return ""
+	}
+	return fmt.Sprintf("%d of %d points lie within %.1f in (%.0f mm) of the duct wall; "+
+		"set them at that distance or choose fewer points per diameter", near, len(pts), minGap.Inch(), minGap.Mm())
 }
 
 // TraverseResult is a computed pitot traverse. Velocities are the point

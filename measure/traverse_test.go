@@ -807,3 +807,32 @@ func FuzzTraverse(f *testing.F) {
 		check("FromVelocities", r, err)
 	})
 }
+
+// Points too near the wall of a round duct are flagged (US EPA Method 1: 0.5 in
+// for ducts up to 24 in, 1.0 in above; from memory).
+func TestTraverseWallClearanceWarning(t *testing.T) {
+	for _, tc := range []struct {
+		name   string
+		layout TraverseLayout
+		warn   bool
+	}{
+		// Equal area, 10 points: the first at 2.6 % of D (EPA Table 1-2) = 0.31 in of 12 in.
+		{"EqualArea10In12", TraverseLayout{Shape: Round, Method: EqualArea, Diameter: Inches(12), PointsPerDiameter: 10, Diameters: 2}, true},
+		// Log-Tchebycheff 8: 0.024·24 in = 0.576 in, clear of 0.5 in.
+		{"LogT8In24", TraverseLayout{Shape: Round, Method: LogTchebycheff, Diameter: Inches(24), PointsPerDiameter: 8, Diameters: 2}, false},
+		// 0.024·36 in = 0.864 in, inside the 1.0 in clearance of a duct over 24 in.
+		{"LogT8In36", TraverseLayout{Shape: Round, Method: LogTchebycheff, Diameter: Inches(36), PointsPerDiameter: 8, Diameters: 2}, true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			found := false
+			for _, w := range tc.layout.Warnings() {
+				if strings.Contains(w, "of the duct wall") {
+					found = true
+				}
+			}
+			if found != tc.warn {
+				t.Errorf("wall-clearance warning = %v, want %v (%q)", found, tc.warn, tc.layout.Warnings())
+			}
+		})
+	}
+}
