@@ -8,7 +8,9 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"slices"
 	"strings"
+	"sync"
 
 	"fieldtab/measure"
 )
@@ -20,6 +22,15 @@ type calcCommand struct {
 	summary string
 	flags   []flagSpec
 	run     func(p *params) (*obj, error)
+
+	once   sync.Once
+	byName map[string]flagSpec
+}
+
+// specIndex returns the command's flags by name, built once.
+func (c *calcCommand) specIndex() map[string]flagSpec {
+	c.once.Do(func() { c.byName = specIndex(append(append([]flagSpec{}, commonFlags...), c.flags...)) })
+	return c.byName
 }
 
 // commonFlags are accepted by every calc subcommand.
@@ -86,7 +97,7 @@ func evalCalc(cmd *calcCommand, vals map[string]string) (*obj, error) {
 		return nil, &flagError{flag: "--units", msg: "accepted values are ip and si"}
 	}
 	out, err := cmd.run(&params{units: u, vals: vals})
-	return out, inUserUnits(err, u)
+	return out, inUserUnits(err, u, cmd.specIndex())
 }
 
 func valueOr(m map[string]string, k, def string) string {
@@ -96,47 +107,63 @@ func valueOr(m map[string]string, k, def string) string {
 	return def
 }
 
-// runCalcBatch reads one JSON object of flags per line on stdin. Flags given on
-// the command line apply to every line; a line's own keys override them. A bad
-// line yields an error object and the run goes on; the exit status is 1 if any
-// line failed.
+// maxBatchLine bounds one --batch line; a longer line is reported, not read.
+const maxBatchLine = 1 << 20
+
+// runCalcBatch reads one JSON object of flags per line on stdin and writes one
+// JSON line per input line, so output line k answers input line k. Flags given
+// on the command line apply to every line; a line's own keys override them. A
+// bad line (blank, not JSON, too long, or failing its calculation) yields an
+// error object and the run goes on; the exit status is 1 if any line failed.
 func (m *Main) runCalcBatch(ctx context.Context, cmd *calcCommand, specs []flagSpec, base map[string]string) error {
 	byName := specIndex(specs)
-	sc := bufio.NewScanner(m.Stdin)
-	sc.Buffer(make([]byte, 64*1024), 1<<20)
+	r := bufio.NewReaderSize(m.Stdin, 64*1024)
 	w := bufio.NewWriterSize(m.Stdout, 64*1024)
 	failed := 0
 	vals := make(map[string]string, len(base)+8)
-	var line []byte
-	for n := 1; sc.Scan(); n++ {
+	var in, out []byte
+	for n := 1; ; n++ {
 		if n%4096 == 0 && ctx.Err() != nil {
 			break
 		}
-		text := bytes.TrimSpace(sc.Bytes())
-		if len(text) == 0 {
-			continue
+		var tooLong bool
+		var readErr error
+		in, tooLong, readErr = readBatchLine(r, in)
+		if readErr != nil && readErr != io.EOF {
+			w.Flush()
+			return fmt.Errorf("calc %s --batch: reading line %d: %w", cmd.name, n, readErr)
 		}
-		clear(vals)
-		for k, v := range base {
-			vals[k] = v
+		if readErr == io.EOF && len(in) == 0 && !tooLong {
+			break
 		}
-		var out *obj
-		err := batchLineFlags(text, byName, vals)
-		if err == nil {
-			out, err = evalCalc(cmd, vals)
+		var res *obj
+		var err error
+		switch text := bytes.TrimSpace(in); {
+		case tooLong:
+			err = &flagError{flag: "(line)", msg: fmt.Sprintf("longer than %d bytes", maxBatchLine)}
+		case len(text) == 0:
+			err = &flagError{flag: "(line)", msg: "empty line; each line is one JSON object of flags"}
+		default:
+			clear(vals)
+			for k, v := range base {
+				vals[k] = v
+			}
+			if err = batchLineFlags(text, byName, vals); err == nil {
+				res, err = evalCalc(cmd, vals)
+			}
 		}
 		if err != nil {
 			failed++
-			out = batchError(n, err)
+			res = batchError(n, err)
 		}
-		line = appendJSON(line[:0], out)
-		line = append(line, '\n')
-		if _, err := w.Write(line); err != nil {
+		out = appendJSON(out[:0], res)
+		out = append(out, '\n')
+		if _, err := w.Write(out); err != nil {
 			return err
 		}
-	}
-	if err := sc.Err(); err != nil {
-		return fmt.Errorf("calc %s --batch: reading stdin: %w", cmd.name, err)
+		if readErr == io.EOF {
+			break
+		}
 	}
 	if err := w.Flush(); err != nil {
 		return err
@@ -148,8 +175,35 @@ func (m *Main) runCalcBatch(ctx context.Context, cmd *calcCommand, specs []flagS
 	return nil
 }
 
-// batchLineFlags decodes one JSON line into flag values. Numbers keep their
-// text exactly; arrays become comma-separated lists.
+// readBatchLine reads one line into buf (without its newline). A line longer
+// than maxBatchLine is consumed and reported as tooLong with no content.
+func readBatchLine(r *bufio.Reader, buf []byte) (line []byte, tooLong bool, err error) {
+	buf = buf[:0]
+	for {
+		chunk, err := r.ReadSlice('\n')
+		if !tooLong {
+			if len(buf)+len(chunk) > maxBatchLine+1 {
+				tooLong, buf = true, buf[:0]
+			} else {
+				buf = append(buf, chunk...)
+			}
+		}
+		if err == bufio.ErrBufferFull {
+			continue
+		}
+		return bytes.TrimSuffix(buf, []byte("\n")), tooLong, err
+	}
+}
+
+// exclusiveFlags are groups of which a calculation takes one; a --batch line
+// that sets one member replaces a member given on the command line.
+var exclusiveFlags = [][]string{
+	{"rh", "wb", "dp"}, {"enter-rh", "enter-wb", "enter-dp"}, {"leave-rh", "leave-wb", "leave-dp"},
+	{"elevation", "pressure"}, {"vp", "velocity"}, {"reading", "velocity"}, {"cv", "kv"},
+}
+
+// batchLineFlags decodes one JSON line into flag values over the command
+// line's. Numbers keep their text exactly; arrays become comma-separated lists.
 func batchLineFlags(text []byte, byName map[string]flagSpec, vals map[string]string) error {
 	dec := json.NewDecoder(bytes.NewReader(text))
 	dec.UseNumber()
@@ -160,6 +214,17 @@ func batchLineFlags(text []byte, byName map[string]flagSpec, vals map[string]str
 	if dec.More() {
 		return &flagError{flag: "(line)", msg: "more than one JSON value on the line"}
 	}
+	for k := range raw {
+		for _, group := range exclusiveFlags {
+			if slices.Contains(group, k) {
+				for _, other := range group {
+					if _, own := raw[other]; !own {
+						delete(vals, other)
+					}
+				}
+			}
+		}
+	}
 	for k, v := range raw {
 		spec, ok := byName[k]
 		if !ok || k == "batch" {
@@ -169,7 +234,7 @@ func batchLineFlags(text []byte, byName map[string]flagSpec, vals map[string]str
 		if err != nil {
 			return &flagError{flag: "--" + k, msg: err.Error()}
 		}
-		if s == "" && v == nil {
+		if v == nil {
 			delete(vals, k)
 			continue
 		}

@@ -1,6 +1,9 @@
 package main
 
 import (
+	"fmt"
+	"math"
+
 	"fieldtab/measure"
 )
 
@@ -83,6 +86,23 @@ func stateFlags(prefix string) inputFlags {
 	}
 }
 
+// airWarnings cautions against the commonest slip with altitude: an actual-cfm
+// reading taken as standard air overstates the air's mass by the density ratio.
+func airWarnings(u measure.UnitSystem, basis measure.FlowBasis, pres float64) []string {
+	seaLevel, _ := measure.StandardPressure(u, 0)
+	ratio := pres / seaLevel
+	if basis != measure.FlowStandard || ratio > 0.98 && ratio < 1.02 {
+		return []string{}
+	}
+	unit := "psia"
+	if u == measure.SI {
+		unit = "kPa"
+	}
+	return []string{fmt.Sprintf("airflow taken at standard density; at %.4g %s an actual-flow reading "+
+		"carries about %.0f %% %s air than standard: if the reading is actual flow (a traverse or an "+
+		"uncorrected hood), use --flow-at enter", pres, unit, math.Abs(1-ratio)*100, map[bool]string{true: "less", false: "more"}[ratio < 1])}
+}
+
 // coilFlags names the flags behind CoilCapacity's and CoilUncertainty's inputs,
 // whose state inputs carry an enter_ or leave_ prefix.
 var coilFlags = func() inputFlags {
@@ -119,10 +139,10 @@ func psychroCommand() *calcCommand {
 		name:    "psychro",
 		summary: "moist-air state from dry bulb and one of RH, wet bulb or dew point (ASHRAE Fundamentals 2017 ch. 1)",
 		flags: append([]flagSpec{
-			{name: "db", usage: "dry bulb, °F or °C"},
+			{name: "db", usage: "dry bulb, °F or °C", qty: qtyTemp},
 			{name: "rh", usage: "relative humidity, % (0–100)"},
-			{name: "wb", usage: "wet bulb, °F or °C"},
-			{name: "dp", usage: "dew point, °F or °C"},
+			{name: "wb", usage: "wet bulb, °F or °C", qty: qtyTemp},
+			{name: "dp", usage: "dew point, °F or °C", qty: qtyTemp},
 		}, pressureFlags...),
 		run: func(p *params) (*obj, error) {
 			pres, err := sitePressure(p)
@@ -147,16 +167,16 @@ func airCommand() *calcCommand {
 		name:    "air",
 		summary: "coil capacity from airflow and entering/leaving air: dry-air mass flow × enthalpy change",
 		flags: append([]flagSpec{
-			{name: "flow", usage: "airflow, cfm or L/s"},
+			{name: "flow", usage: "airflow, cfm or L/s", qty: qtyAirFlow},
 			{name: "flow-at", usage: "density the airflow refers to: standard, enter or leave", def: "standard"},
-			{name: "enter-db", usage: "entering dry bulb, °F or °C"},
+			{name: "enter-db", usage: "entering dry bulb, °F or °C", qty: qtyTemp},
 			{name: "enter-rh", usage: "entering RH, %"},
-			{name: "enter-wb", usage: "entering wet bulb, °F or °C"},
-			{name: "enter-dp", usage: "entering dew point, °F or °C"},
-			{name: "leave-db", usage: "leaving dry bulb, °F or °C"},
+			{name: "enter-wb", usage: "entering wet bulb, °F or °C", qty: qtyTemp},
+			{name: "enter-dp", usage: "entering dew point, °F or °C", qty: qtyTemp},
+			{name: "leave-db", usage: "leaving dry bulb, °F or °C", qty: qtyTemp},
 			{name: "leave-rh", usage: "leaving RH, %"},
-			{name: "leave-wb", usage: "leaving wet bulb, °F or °C"},
-			{name: "leave-dp", usage: "leaving dew point, °F or °C"},
+			{name: "leave-wb", usage: "leaving wet bulb, °F or °C", qty: qtyTemp},
+			{name: "leave-dp", usage: "leaving dew point, °F or °C", qty: qtyTemp},
 			{name: "flow-acc-pct", usage: "airflow instrument accuracy, ± % of reading"},
 			{name: "temp-acc", usage: "thermometer accuracy, ± °F or °C"},
 			{name: "rh-acc", usage: "RH sensor accuracy, ± % RH"},
@@ -203,6 +223,7 @@ func runAir(p *params) (*obj, error) {
 	o := newObj(12)
 	o.str("units", u.String()).
 		str("process", res.Process).
+		str("flow_basis", basis.String()).
 		num("total", res.Total.In(u)).
 		num("sensible", res.Sensible.In(u)).
 		num("latent", res.Latent.In(u)).
@@ -211,6 +232,11 @@ func runAir(p *params) (*obj, error) {
 		sub("enter", stateObj(enter)).
 		sub("leave", stateObj(leave))
 
+	o.strs("warnings", airWarnings(u, basis, pres))
+
+	if p.has("rh-acc") && enterSpec.Kind != measure.RelHum && leaveSpec.Kind != measure.RelHum {
+		return nil, &flagError{flag: "--rh-acc", msg: "applies to RH readings (--enter-rh, --leave-rh); wet bulb and dew point take --temp-acc"}
+	}
 	if p.has("flow-acc-pct") || p.has("temp-acc") || p.has("rh-acc") {
 		var acc measure.AirAccuracy
 		if acc.FlowPct, err = p.floatOr("flow-acc-pct", 0); err != nil {

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"regexp"
 	"sort"
 	"strconv"
 	"strings"
@@ -16,8 +17,9 @@ import (
 type flagSpec struct {
 	name  string // without the leading dashes
 	usage string
-	def   string // default value, "" for none
-	bool  bool   // a switch that takes no value
+	def   string   // default value, "" for none
+	bool  bool     // a switch that takes no value
+	qty   quantity // what the value measures, for errors in the user's units
 }
 
 // flagError is an error about one flag; its message starts with the flag's name.
@@ -201,23 +203,138 @@ func inputErrorText(ie *measure.InputError) string {
 	return msg
 }
 
-// inUserUnits restates a temperature error in °F for an IP user: some measure
-// functions take typed temperatures and report their ranges in °C or K.
-func inUserUnits(err error, u measure.UnitSystem) error {
+// quantity says what a flag measures, so an error from measure (which reports
+// typed quantities in SI) can be restated in the units the user typed.
+type quantity uint8
+
+const (
+	qtyNone quantity = iota
+	qtyTemp
+	qtyAirFlow
+	qtyWaterFlow
+	qtyDuctPressure
+	qtyDuctSize
+	qtyVelocity
+	qtyArea
+	qtyFanPower
+)
+
+// siScale is the factor from an SI unit that measure reports in to its base unit.
+func siScale(unit string) (float64, bool) {
+	switch unit {
+	case "m³/s", "Pa", "m", "m/s", "m²", "W":
+		return 1, true
+	case "L/s", "mm":
+		return 1e-3, true
+	case "kPa":
+		return 1e3, true
+	case "MPa":
+		return 1e6, true
+	}
+	return 0, false
+}
+
+// userValue converts v from the SI base unit of q to the user's unit.
+func (q quantity) userValue(u measure.UnitSystem, v float64) (float64, string) {
+	ip := u == measure.IP
+	pick := func(ipUnit, siUnit string) string {
+		if ip {
+			return ipUnit
+		}
+		return siUnit
+	}
+	switch q {
+	case qtyAirFlow:
+		return measure.VolumeFlow(v).AirIn(u), pick("cfm", "L/s")
+	case qtyWaterFlow:
+		return measure.VolumeFlow(v).WaterIn(u), pick("gpm", "L/s")
+	case qtyDuctPressure:
+		return measure.Pressure(v).DuctIn(u), pick("in. w.g.", "Pa")
+	case qtyDuctSize:
+		return measure.Length(v).DuctSizeIn(u), pick("in", "mm")
+	case qtyVelocity:
+		return measure.Velocity(v).In(u), pick("fpm", "m/s")
+	case qtyArea:
+		return measure.Area(v).In(u), pick("ft²", "m²")
+	case qtyFanPower:
+		if ip {
+			return measure.Power(v).HP(), "hp"
+		}
+		return v, "W"
+	}
+	return v, ""
+}
+
+// temperatureIn converts v in unit (°F, °C or K) to the user's scale.
+func temperatureIn(unit string, u measure.UnitSystem, v float64) (float64, bool) {
+	var t measure.Temperature
+	switch unit {
+	case "°F":
+		t = measure.DegF(v)
+	case "°C":
+		t = measure.DegC(v)
+	case "K":
+		t = measure.Kelvin(v)
+	default:
+		return 0, false
+	}
+	return t.In(u), true
+}
+
+// convertInText rewrites the figures in text that carry unit from (“-10 °C”,
+// “-10 to 100 °C”) into unit to.
+func convertInText(text, from, to string, conv func(float64) float64) string {
+	if text == "" || from == to {
+		return text
+	}
+	num := `(-?\d+(?:\.\d+)?(?:e[-+]?\d+)?)`
+	re := regexp.MustCompile(num + `(?: to ` + num + `)? ` + regexp.QuoteMeta(from))
+	format := func(s string) string {
+		v, _ := strconv.ParseFloat(s, 64)
+		return strconv.FormatFloat(conv(v), 'g', 6, 64)
+	}
+	return re.ReplaceAllStringFunc(text, func(m string) string {
+		sub := re.FindStringSubmatch(m)
+		if sub[2] != "" {
+			return format(sub[1]) + " to " + format(sub[2]) + " " + to
+		}
+		return format(sub[1]) + " " + to
+	})
+}
+
+// inUserUnits restates a measure error in the units of the flag that carried
+// it: measure reports typed quantities in SI (m³/s, Pa, mm, °C), a technician
+// typed cfm, in. w.g., inches and °F.
+func inUserUnits(err error, u measure.UnitSystem, specs map[string]flagSpec) error {
 	var fe *flagError
-	if u != measure.IP || !errors.As(err, &fe) || fe.input == nil {
+	if !errors.As(err, &fe) || fe.input == nil {
 		return err
 	}
+	q := specs[strings.TrimPrefix(fe.flag, "--")].qty
 	ie := *fe.input
-	var toF func(float64) float64
-	switch ie.Unit {
-	case "°C":
-		toF = func(v float64) float64 { return measure.DegC(v).F() }
-	case "K":
-		toF = func(v float64) float64 { return measure.Kelvin(v).F() }
+	conv := func(v float64) float64 { return v }
+	unit := ie.Unit
+	switch {
+	case q == qtyTemp:
+		if _, ok := temperatureIn(ie.Unit, u, 0); !ok {
+			return err
+		}
+		conv = func(v float64) float64 { t, _ := temperatureIn(ie.Unit, u, v); return t }
+		unit = "°F"
+		if u == measure.SI {
+			unit = "°C"
+		}
+	case q != qtyNone:
+		scale, ok := siScale(ie.Unit)
+		if !ok {
+			return err
+		}
+		_, unit = q.userValue(u, 0)
+		conv = func(v float64) float64 { x, _ := q.userValue(u, v*scale); return x }
 	default:
 		return err
 	}
-	ie.Value, ie.Min, ie.Max, ie.Unit = toF(ie.Value), toF(ie.Min), toF(ie.Max), "°F"
+	ie.Reason = convertInText(ie.Reason, ie.Unit, unit, conv)
+	ie.Value, ie.Min, ie.Max, ie.Unit = conv(ie.Value), conv(ie.Min), conv(ie.Max), unit
 	return &flagError{flag: fe.flag, msg: inputErrorText(&ie), input: &ie}
 }

@@ -13,20 +13,20 @@ func traverseCommand() *calcCommand {
 		summary: "pitot traverse: point positions, and with readings the mean velocity and airflow",
 		flags: append([]flagSpec{
 			{name: "shape", usage: "rect or round"},
-			{name: "width", usage: "rectangular duct inside width, in or mm"},
-			{name: "height", usage: "rectangular duct inside height, in or mm"},
-			{name: "diameter", usage: "round duct inside diameter, in or mm"},
+			{name: "width", usage: "rectangular duct inside width, in or mm", qty: qtyDuctSize},
+			{name: "height", usage: "rectangular duct inside height, in or mm", qty: qtyDuctSize},
+			{name: "diameter", usage: "round duct inside diameter, in or mm", qty: qtyDuctSize},
 			{name: "method", usage: "log-tchebycheff, log-linear (round only) or equal-area", def: "log-tchebycheff"},
 			{name: "points-w", usage: "rectangular: points along the width"},
 			{name: "points-h", usage: "rectangular: points along the height (lines)"},
 			{name: "points", usage: "round: points per diameter"},
 			{name: "diameters", usage: "round: traverse diameters", def: "2"},
-			{name: "vp", usage: "velocity pressures, in. w.g. or Pa, comma-separated in point order"},
-			{name: "velocity", usage: "point velocities, fpm or m/s, comma-separated in point order"},
-			{name: "db", usage: "air dry bulb in the duct, °F or °C (for the actual density)"},
+			{name: "vp", usage: "velocity pressures, in. w.g. or Pa, comma-separated in point order", qty: qtyDuctPressure},
+			{name: "velocity", usage: "point velocities, fpm or m/s, comma-separated in point order", qty: qtyVelocity},
+			{name: "db", usage: "air dry bulb in the duct, °F or °C (for the actual density)", qty: qtyTemp},
 			{name: "rh", usage: "air RH in the duct, %"},
-			{name: "wb", usage: "air wet bulb in the duct, °F or °C"},
-			{name: "dp", usage: "air dew point in the duct, °F or °C"},
+			{name: "wb", usage: "air wet bulb in the duct, °F or °C", qty: qtyTemp},
+			{name: "dp", usage: "air dew point in the duct, °F or °C", qty: qtyTemp},
 		}, pressureFlags...),
 		run: runTraverse,
 	}
@@ -184,10 +184,10 @@ func runTraverse(p *params) (*obj, error) {
 		points[i] = po
 	}
 	o.list("points", points)
-	warnings := []string{}
+	warnings := append([]string{}, layout.Warnings()...)
 	if res != nil {
 		o.num("mean_velocity", res.MeanVelocity.In(u)).num("flow", res.Flow.AirIn(u))
-		warnings = append(warnings, res.Warnings...)
+		warnings = append(warnings[:0], res.Warnings...) // the result repeats the layout's warnings
 	}
 	o.strs("warnings", warnings)
 	return o, nil
@@ -198,15 +198,15 @@ func outletCommand() *calcCommand {
 		name:    "outlet",
 		summary: "outlet airflow from a hood reading or velocity × Ak, its % of design and tolerance status",
 		flags: []flagSpec{
-			{name: "reading", usage: "flow hood reading, cfm or L/s"},
+			{name: "reading", usage: "flow hood reading, cfm or L/s", qty: qtyAirFlow},
 			{name: "factor", usage: "hood correction factor", def: "1"},
-			{name: "velocity", usage: "mean face velocity, fpm or m/s (with --ak)"},
-			{name: "ak", usage: "outlet effective area Ak, ft² or m²"},
-			{name: "design", usage: "design airflow, cfm or L/s"},
+			{name: "velocity", usage: "mean face velocity, fpm or m/s (with --ak)", qty: qtyVelocity},
+			{name: "ak", usage: "outlet effective area Ak, ft² or m²", qty: qtyArea},
+			{name: "design", usage: "design airflow, cfm or L/s", qty: qtyAirFlow},
 			{name: "tol-low", usage: "allowed deviation below design, % of design", def: "10"},
 			{name: "tol-high", usage: "allowed deviation above design, % of design", def: "10"},
 			{name: "acc-pct", usage: "instrument accuracy, ± % of reading", def: "0"},
-			{name: "acc-abs", usage: "instrument accuracy, ± cfm or L/s", def: "0"},
+			{name: "acc-abs", usage: "instrument accuracy, ± cfm or L/s", def: "0", qty: qtyAirFlow},
 		},
 		run: runOutlet,
 	}
@@ -295,13 +295,13 @@ func fanCommand() *calcCommand {
 		name:    "fan",
 		summary: "fan laws: the rpm, static pressure and power to reach a target airflow, and the motor sheave for it",
 		flags: []flagSpec{
-			{name: "flow", usage: "measured airflow, cfm or L/s"},
+			{name: "flow", usage: "measured airflow, cfm or L/s", qty: qtyAirFlow},
 			{name: "rpm", usage: "measured fan speed, rpm"},
-			{name: "sp", usage: "measured static pressure, in. w.g. or Pa"},
-			{name: "bhp", usage: "fan power, hp (IP) or W (SI)"},
-			{name: "target-flow", usage: "airflow wanted (usually design), cfm or L/s"},
-			{name: "motor-rpm", usage: "motor speed, rpm (to size the fan sheave)"},
-			{name: "motor-sheave", usage: "present motor sheave pitch diameter, in or mm"},
+			{name: "sp", usage: "measured static pressure, in. w.g. or Pa", qty: qtyDuctPressure},
+			{name: "bhp", usage: "fan power, hp (IP) or W (SI)", qty: qtyFanPower},
+			{name: "target-flow", usage: "airflow wanted (usually design), cfm or L/s", qty: qtyAirFlow},
+			{name: "motor-rpm", usage: "motor nameplate speed, rpm (adds the present fan sheave and the fan sheave for the target with the motor sheave kept)"},
+			{name: "motor-sheave", usage: "present motor sheave pitch diameter, in or mm", qty: qtyDuctSize},
 		},
 		run: runFan,
 	}
@@ -336,7 +336,7 @@ func runFan(p *params) (*obj, error) {
 	if err != nil {
 		return nil, err
 	}
-	names := inputFlags{"flow": "flow", "rpm": "rpm", "static_pressure": "sp", "power": "bhp",
+	names := inputFlags{"flow": "flow", "rpm": "rpm", "fan_rpm": "rpm", "target_rpm": "target-flow", "static_pressure": "sp", "power": "bhp",
 		"target_flow": "target-flow", "motor_sheave": "motor-sheave", "motor_rpm": "motor-rpm"}
 	next, err := measure.FanLawsToFlow(now, measure.AirFlowIn(u, target))
 	if err != nil {
@@ -369,11 +369,19 @@ func runFan(p *params) (*obj, error) {
 			if err != nil {
 				return nil, err
 			}
-			fanSheave, err := measure.FanSheaveFromDrive(mrpm, measure.DuctSizeIn(u, d), now.RPM)
+			// Two ways to the target speed: the motor sheave above (fan sheave kept),
+			// or a new fan sheave with the motor sheave kept. The present fan sheave
+			// lets the technician check the drive against what is installed.
+			motorSheave := measure.DuctSizeIn(u, d)
+			present, err := measure.FanSheaveFromDrive(mrpm, motorSheave, now.RPM)
 			if err != nil {
 				return nil, flagErr(err, names)
 			}
-			o.num("fan_sheave", fanSheave.DuctSizeIn(u))
+			needed, err := measure.FanSheaveFromDrive(mrpm, motorSheave, next.RPM)
+			if err != nil {
+				return nil, flagErr(err, names)
+			}
+			o.num("present_fan_sheave", present.DuctSizeIn(u)).num("fan_sheave", needed.DuctSizeIn(u))
 		}
 	} else if p.has("motor-rpm") {
 		return nil, &flagError{flag: "--motor-rpm", msg: "needs --motor-sheave"}
@@ -387,9 +395,9 @@ func expectedCommand() *calcCommand {
 		summary: "expected capacity from a manufacturer's performance table (CSV), interpolated, never extrapolated",
 		flags: []flagSpec{
 			{name: "table", usage: "performance table CSV (columns ewb_f|ewb_c, odb_f|odb_c, flow_cfm|flow_lps, total_*, sensible_*)"},
-			{name: "ewb", usage: "entering wet bulb, °F or °C"},
-			{name: "odb", usage: "outdoor dry bulb, °F or °C"},
-			{name: "flow", usage: "airflow, cfm or L/s"},
+			{name: "ewb", usage: "entering wet bulb, °F or °C", qty: qtyTemp},
+			{name: "odb", usage: "outdoor dry bulb, °F or °C", qty: qtyTemp},
+			{name: "flow", usage: "airflow, cfm or L/s", qty: qtyAirFlow},
 		},
 		run: runExpected,
 	}

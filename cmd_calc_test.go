@@ -130,7 +130,7 @@ func TestCalcAir(t *testing.T) {
 	// 4.5·cfm·Δh shortcut (common practice, no source) agree within about 2 %
 	// at sea level because 4.5 assumes 0.075 lb/ft³, the basis given here.
 	args := []string{"calc", "air", "--flow", "4000", "--enter-db", "80", "--enter-wb", "67",
-		"--leave-db", "55", "--leave-wb", "54", "--flow-acc-pct", "5", "--temp-acc", "0.5", "--rh-acc", "2"}
+		"--leave-db", "55", "--leave-wb", "54", "--flow-acc-pct", "5", "--temp-acc", "0.5"}
 	out, stderr, code := runMain(t, "", args...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
@@ -179,10 +179,10 @@ func TestCalcBatch(t *testing.T) {
 		t.Errorf("exit %d, want 1 when a line fails; stderr %s", code, stderr)
 	}
 	lines := strings.Split(strings.TrimSpace(out), "\n")
-	if len(lines) != 5 {
-		t.Fatalf("%d output lines, want 5 (one per non-empty input):\n%s", len(lines), out)
+	if len(lines) != 6 {
+		t.Fatalf("%d output lines, want 6 (one per input line, blank included):\n%s", len(lines), out)
 	}
-	wantErr := []string{"", "--rh", "(line)", "", "--nonsense"}
+	wantErr := []string{"", "--rh", "(line)", "(line)", "", "--nonsense"}
 	for i, l := range lines {
 		m := mustJSON(t, l)
 		if wantErr[i] == "" {
@@ -196,7 +196,7 @@ func TestCalcBatch(t *testing.T) {
 		}
 	}
 	// 5000 ft: 14.696·(1 − 6.8754e−6·5000)^5.2559 = 12.228 psia (ASHRAE 2017 ch. 1 eq. 3, worked by hand).
-	if p := num64(t, mustJSON(t, lines[3]), "pressure"); !near(p, 12.228, 0.002) {
+	if p := num64(t, mustJSON(t, lines[4]), "pressure"); !near(p, 12.228, 0.002) {
 		t.Errorf("pressure at 5000 ft = %v psia, want 12.228", p)
 	}
 
@@ -211,6 +211,31 @@ func TestCalcBatch(t *testing.T) {
 		}
 		if db := num64(t, mustJSON(t, ls[1]), "dry_bulb"); db != 90 {
 			t.Errorf("line 2 dry_bulb = %v, want the line's own 90", db)
+		}
+	})
+	t.Run("OKLineSwitchesHumidityKind", func(t *testing.T) {
+		// The command line gives --rh; a line giving wb replaces it rather than clashing.
+		out, stderr, code := runMain(t, "{\"db\":75}\n{\"db\":75,\"wb\":60}\n", "calc", "psychro", "--batch", "--rh", "40")
+		if code != 0 {
+			t.Fatalf("exit %d: %s\n%s", code, stderr, out)
+		}
+		ls := strings.Split(strings.TrimSpace(out), "\n")
+		if wb := num64(t, mustJSON(t, ls[1]), "wet_bulb"); wb != 60 {
+			t.Errorf("line 2 wet_bulb = %v, want 60", wb)
+		}
+	})
+	t.Run("ErrLongLineKeepsTheRest", func(t *testing.T) {
+		in := "{\"db\":70,\"rh\":50}\n" + strings.Repeat(" ", maxBatchLine+10) + "\n{\"db\":71,\"rh\":50}"
+		out, _, code := runMain(t, in, "calc", "psychro", "--batch")
+		ls := strings.Split(strings.TrimSpace(out), "\n")
+		if code != 1 || len(ls) != 3 {
+			t.Fatalf("exit %d, %d lines; want exit 1 and 3 lines", code, len(ls))
+		}
+		if m := mustJSON(t, ls[1]); m["line"] != 2.0 || !strings.Contains(m["error"].(string), "longer than") {
+			t.Errorf("line 2 = %v, want a too-long error for line 2", m)
+		}
+		if db := num64(t, mustJSON(t, ls[2]), "dry_bulb"); db != 71 {
+			t.Errorf("line 3 (no trailing newline) dry_bulb = %v, want 71", db)
 		}
 	})
 	t.Run("OKListValue", func(t *testing.T) {
@@ -264,6 +289,29 @@ func TestCalcWaterValveOutletFanExpected(t *testing.T) {
 			}
 		})
 	}
+	t.Run("OKFanSheaves", func(t *testing.T) {
+		// 1750 rpm motor, 5 in sheave, fan at 1000 rpm: fan sheave 5·1750/1000 = 8.75 in now;
+		// for 10000/9000·1000 = 1111.1 rpm with the motor sheave kept, 5·1750/1111.1 = 7.875 in.
+		out, _, _ := runMain(t, "", "calc", "fan", "--flow", "9000", "--rpm", "1000", "--target-flow", "10000",
+			"--motor-sheave", "5", "--motor-rpm", "1750")
+		m := mustJSON(t, out)
+		if got := num64(t, m, "present_fan_sheave"); !near(got, 8.75, 1e-6) {
+			t.Errorf("present_fan_sheave = %v, want 8.75", got)
+		}
+		if got := num64(t, m, "fan_sheave"); !near(got, 7.875, 1e-6) {
+			t.Errorf("fan_sheave = %v, want 7.875", got)
+		}
+	})
+	t.Run("OKOutletOnTheLimit", func(t *testing.T) {
+		// +10 % exactly is inside a closed ±10 % band, after cfm → m³/s → cfm.
+		for _, args := range [][]string{{"--reading", "275", "--design", "250"}, {"--reading", "81", "--design", "90"},
+			{"--reading", "200", "--factor", "1.1", "--design", "200"}} {
+			out, _, _ := runMain(t, "", append([]string{"calc", "outlet"}, args...)...)
+			if s := mustJSON(t, out)["status"]; s != "within" {
+				t.Errorf("%v: status %v, want within", args, s)
+			}
+		}
+	})
 	t.Run("OKOutletStatus", func(t *testing.T) {
 		out, _, _ := runMain(t, "", "calc", "outlet", "--reading", "330", "--design", "400")
 		if s := mustJSON(t, out)["status"]; s != "low" {
@@ -293,6 +341,60 @@ func TestCalcWaterValveOutletFanExpected(t *testing.T) {
 		_, stderr, code = runMain(t, "", "calc", "expected", "--table", path, "--ewb", "64", "--odb", "100", "--flow", "3500")
 		if code == 0 || !strings.Contains(stderr, "--odb") {
 			t.Errorf("odb outside the table: exit %d, stderr %q; want a refusal naming --odb", code, stderr)
+		}
+	})
+}
+
+func TestCalcErrorsInUserUnits(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		args []string
+		want []string
+	}{
+		// measure reports these in Pa, mm and L/s; the user typed in. w.g., inches and gpm.
+		{"FanSP", []string{"fan", "--flow", "4000", "--rpm", "900", "--sp", "500", "--target-flow", "5000"}, []string{"--sp", "500 in. w.g.", "in. w.g."}},
+		{"TraverseWidth", []string{"traverse", "--shape", "rect", "--width", "0.5", "--height", "12"}, []string{"--width", "0.5 in", "0.984252 to"}},
+		{"WaterFlow", []string{"water", "--flow", "2e6", "--enter", "45", "--leave", "55"}, []string{"--flow", "gpm"}},
+		// 30 % propylene glycol: table from -10 °C = 14 °F (ASHRAE table via shared/references).
+		{"GlycolReasonInF", []string{"water", "--flow", "50", "--enter", "0", "--leave", "10", "--fluid", "pg", "--concentration", "30"}, []string{"--enter", "0 °F", "14 to 212 °F"}},
+		{"ValveDPInFeet", []string{"valve", "--cv", "10", "--dp", "-3", "--dp-unit", "ft"}, []string{"--dp", "-3 ft", "reversed"}},
+		{"RHAccuracyWithoutRH", []string{"air", "--flow", "2000", "--enter-db", "80", "--enter-wb", "67", "--leave-db", "55", "--leave-wb", "54", "--rh-acc", "2"}, []string{"--rh-acc"}},
+	} {
+		t.Run("Err"+tc.name, func(t *testing.T) {
+			_, stderr, code := runMain(t, "", append([]string{"calc"}, tc.args...)...)
+			if code == 0 {
+				t.Fatal("exit 0, want an error")
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(stderr, w) {
+					t.Errorf("stderr %q lacks %q", stderr, w)
+				}
+			}
+		})
+	}
+}
+
+func TestCalcWarnings(t *testing.T) {
+	t.Run("OKStandardBasisAtAltitude", func(t *testing.T) {
+		out, _, _ := runMain(t, "", "calc", "air", "--flow", "2000", "--enter-db", "80", "--enter-wb", "67",
+			"--leave-db", "55", "--leave-wb", "54", "--elevation", "5000")
+		m := mustJSON(t, out)
+		if m["flow_basis"] != "standard" {
+			t.Errorf("flow_basis = %v", m["flow_basis"])
+		}
+		if w, _ := m["warnings"].([]any); len(w) != 1 || !strings.Contains(w[0].(string), "--flow-at enter") {
+			t.Errorf("warnings = %v, want the standard-density caution", m["warnings"])
+		}
+		out, _, _ = runMain(t, "", "calc", "air", "--flow", "2000", "--enter-db", "80", "--enter-wb", "67",
+			"--leave-db", "55", "--leave-wb", "54", "--elevation", "5000", "--flow-at", "enter")
+		if w, _ := mustJSON(t, out)["warnings"].([]any); len(w) != 0 {
+			t.Errorf("flow at entering state: warnings %v, want none", w)
+		}
+	})
+	t.Run("OKLayoutWarningsWithoutReadings", func(t *testing.T) {
+		out, _, _ := runMain(t, "", "calc", "traverse", "--shape", "round", "--diameter", "12", "--method", "equal-area", "--points", "10")
+		if w, _ := mustJSON(t, out)["warnings"].([]any); len(w) == 0 {
+			t.Error("10 equal-area points in a 12 in duct: no wall-clearance warning before readings")
 		}
 	})
 }
@@ -350,7 +452,7 @@ func BenchmarkCalcAir(b *testing.B) {
 	cmd := airCommand()
 	base := map[string]string{"flow": "4000", "enter-db": "80", "enter-wb": "67", "leave-db": "55",
 		"leave-wb": "54", "elevation": "1200"}
-	withAcc := map[string]string{"flow-acc-pct": "3", "temp-acc": "0.3", "rh-acc": "2"}
+	withAcc := map[string]string{"flow-acc-pct": "3", "temp-acc": "0.3"}
 	for k, v := range base {
 		withAcc[k] = v
 	}

@@ -1,6 +1,8 @@
 package main
 
 import (
+	"errors"
+	"fmt"
 	"strings"
 
 	"fieldtab/measure"
@@ -11,9 +13,9 @@ func waterCommand() *calcCommand {
 		name:    "water",
 		summary: "water-side capacity: flow × density × specific heat × ΔT at the mean temperature",
 		flags: []flagSpec{
-			{name: "flow", usage: "water flow, gpm or L/s"},
-			{name: "enter", usage: "entering water temperature, °F or °C"},
-			{name: "leave", usage: "leaving water temperature, °F or °C"},
+			{name: "flow", usage: "water flow, gpm or L/s", qty: qtyWaterFlow},
+			{name: "enter", usage: "entering water temperature, °F or °C", qty: qtyTemp},
+			{name: "leave", usage: "leaving water temperature, °F or °C", qty: qtyTemp},
 			{name: "fluid", usage: "water, pg (propylene glycol) or eg (ethylene glycol)", def: "water"},
 			{name: "concentration", usage: "glycol concentration, % by volume (10–60)"},
 		},
@@ -74,7 +76,7 @@ func valveCommand() *calcCommand {
 			{name: "cv", usage: "valve Cv at the set position (gpm at 1 psi)"},
 			{name: "kv", usage: "valve Kv at the set position (m³/h at 1 bar)"},
 			{name: "dp", usage: "measured pressure drop"},
-			{name: "dp-unit", usage: "psi, ft, kpa or m (of water); default psi (IP) or kpa (SI)"},
+			{name: "dp-unit", usage: "psi, kpa, bar, or ft or m of water; default psi (IP) or kpa (SI)"},
 			{name: "sg", usage: "specific gravity of the fluid", def: "1"},
 		},
 		run: runValve,
@@ -112,8 +114,10 @@ func runValve(p *params) (*obj, error) {
 		dp = measure.Kilopascals(dpV)
 	case "m":
 		dp = measure.MWater(dpV)
+	case "bar":
+		dp = measure.Kilopascals(100 * dpV)
 	default:
-		return nil, &flagError{flag: "--dp-unit", msg: "accepted values are psi, ft, kpa and m"}
+		return nil, &flagError{flag: "--dp-unit", msg: "accepted values are psi, ft, kpa, m and bar"}
 	}
 	sg, err := p.floatOr("sg", 1)
 	if err != nil {
@@ -124,6 +128,15 @@ func runValve(p *params) (*obj, error) {
 		q, err = measure.ValveFlowCv(coef, dp, sg)
 	} else {
 		q, err = measure.ValveFlowKv(coef, dp, sg)
+	}
+	var ie *measure.InputError
+	if errors.As(err, &ie) && ie.Input == "dp" {
+		// measure states ΔP in psi or bar; restate it in the unit the user gave.
+		msg := ie.Reason
+		if msg == "" {
+			msg = "outside the accepted range"
+		}
+		return nil, &flagError{flag: "--dp", msg: fmt.Sprintf("%g %s: %s", dpV, p.str("dp-unit", defUnit), msg)}
 	}
 	if err != nil {
 		return nil, flagErr(err, inputFlags{"cv": "cv", "kv": "kv", "dp": "dp", "sg": "sg"})
