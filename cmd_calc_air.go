@@ -232,7 +232,7 @@ func runAir(p *params) (*obj, error) {
 		sub("enter", stateObj(enter)).
 		sub("leave", stateObj(leave))
 
-	o.strs("warnings", airWarnings(u, basis, pres))
+	o.strs("warnings", append(airWarnings(u, basis, pres), res.Warnings...))
 
 	if p.has("rh-acc") && enterSpec.Kind != measure.RelHum && leaveSpec.Kind != measure.RelHum {
 		return nil, &flagError{flag: "--rh-acc", msg: "applies to RH readings (--enter-rh, --leave-rh); wet bulb and dew point take --temp-acc"}

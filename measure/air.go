@@ -52,7 +52,8 @@ func ParseFlowBasis(s string) (FlowBasis, error) {
 // entering enthalpy is the higher), heat added when heating. Latent (and, in odd
 // processes such as evaporative cooling, Sensible) may be negative: a cooling coil
 // that adds moisture has negative latent capacity. SHR is Sensible/Total, 0 when
-// Total is 0. MassFlow is the dry-air mass flow.
+// Total is 0. MassFlow is the dry-air mass flow. Warnings are plain-English
+// cautions for the technician when the process is not what a coil usually does.
 type CoilResult struct {
 	Process  string // "cooling" or "heating"
 	Total    Power
@@ -60,6 +61,7 @@ type CoilResult struct {
 	Latent   Power
 	SHR      float64
 	MassFlow MassFlow
+	Warnings []string
 }
 
 // CoilCapacity returns the air-side capacity of a coil from the air flow through it
@@ -110,6 +112,14 @@ func CoilCapacity(flow VolumeFlow, basis FlowBasis, enter, leave AirState) (Coil
 		shr = sens / total
 	}
 	r.SHR = shr
+	if sens < 0 {
+		r.Warnings = append(r.Warnings, "the dry bulb moves against the total heat: a near-adiabatic process "+
+			"(evaporative cooling, a humidifier, or readings taken before the coil settled); SHR means little here")
+	}
+	if r.Process == "cooling" && total-sens < 0 && sens >= 0 {
+		r.Warnings = append(r.Warnings, "the air leaves with more moisture than it entered: check the leaving "+
+			"humidity reading, or for condensate re-evaporating off a coil that has just cycled off")
+	}
 	if enter.Units == SI {
 		r.Total, r.Sensible, r.Latent = Kilowatts(total), Kilowatts(sens), Kilowatts(total-sens)
 		r.MassFlow = KgPerSecond(m)

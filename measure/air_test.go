@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -410,6 +411,42 @@ func TestAirCoilUncertaintyErrors(t *testing.T) {
 			var ie *InputError
 			if !errors.As(err, &ie) || ie.Input != c.input {
 				t.Errorf("err = %v, want *InputError for %s", err, c.input)
+			}
+		})
+	}
+}
+
+// Processes a cooling coil does not make carry a warning; an ordinary wet coil none.
+// Values are chosen to put the process on each side (no external source needed: the
+// signs follow from the enthalpy equation).
+func TestAirCoilWarnings(t *testing.T) {
+	p := 14.696
+	state := func(db, wb float64) AirState {
+		st, err := AirSpec{DryBulb: db, Kind: WetBulb, Humidity: wb}.State(IP, p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return st
+	}
+	for _, tc := range []struct {
+		name         string
+		enter, leave AirState
+		want         string
+	}{
+		{"WetCoil", state(80, 67), state(55, 54), ""},
+		// Evaporative cooling: the wet bulb stays put while the dry bulb falls.
+		{"Adiabatic", state(95, 60), state(70, 60), "near-adiabatic"},
+		// Leaving air cooler but wetter (dew point up).
+		{"MoistureAdded", state(85, 62), state(70, 61), "more moisture"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			r, err := CoilCapacity(CFM(2000), FlowStandard, tc.enter, tc.leave)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got := strings.Join(r.Warnings, " | ")
+			if tc.want == "" && got != "" || !strings.Contains(got, tc.want) {
+				t.Errorf("warnings %q, want one containing %q", got, tc.want)
 			}
 		})
 	}
