@@ -42,7 +42,7 @@ var commonFlags = []flagSpec{
 func calcCommands() []*calcCommand {
 	return []*calcCommand{
 		psychroCommand(), airCommand(), waterCommand(), valveCommand(),
-		traverseCommand(), outletCommand(), fanCommand(), expectedCommand(),
+		traverseCommand(), outletCommand(), fanCommand(), motorCommand(), expectedCommand(),
 	}
 }
 

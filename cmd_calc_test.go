@@ -472,3 +472,33 @@ func BenchmarkCalcAir(b *testing.B) {
 		})
 	}
 }
+
+func TestCalcMotor(t *testing.T) {
+	// NEMA MG 1 unbalance example (from memory): 460, 467, 450 V → 1.96 %; input power
+	// √3·V·I·PF with the average volts (459) and amps (10.1667).
+	out, stderr, code := runMain(t, "", "calc", "motor", "--volts", "460,467,450", "--amps", "10,11,9.5",
+		"--pf", "0.85", "--fla", "10.5")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	m := mustJSON(t, out)
+	for key, want := range map[string]float64{
+		"voltage_imbalance": 1.96078,
+		"current_imbalance": 8.19672,                                     // max dev 0.8333 of 10.1667 A, by hand
+		"input_kw":          math.Sqrt(3) * 459 * 10.16667 * 0.85 / 1000, // 6.870 kW
+		"percent_fla":       11.0 / 10.5 * 100,                           // highest leg against FLA
+	} {
+		if got := num64(t, m, key); !near(got, want, 2e-5) {
+			t.Errorf("%s = %v, want %v", key, got, want)
+		}
+	}
+	if w, _ := m["warnings"].([]any); len(w) != 2 {
+		t.Errorf("warnings = %v, want imbalance above 1 %% and amps above FLA", m["warnings"])
+	}
+	if c, _ := m["caution"].(string); !strings.Contains(c, "qualified person") {
+		t.Errorf("caution = %q", c)
+	}
+	if _, stderr, code := runMain(t, "", "calc", "motor", "--volts", "460,467", "--amps", "10"); code == 0 || !strings.Contains(stderr, "--volts") {
+		t.Errorf("two voltage readings: exit %d, %q", code, stderr)
+	}
+}

@@ -163,6 +163,11 @@ func PercentFLA(amps, fla float64) (float64, error) {
 	return amps / fla * 100, nil
 }
 
+// VoltageUnbalanceDeratePct is the voltage unbalance, in percent, above which
+// NEMA MG 1 §14.35 has a motor derated (from memory, not confirmed against the
+// text).
+const VoltageUnbalanceDeratePct = 1.0
+
 // VoltageImbalance returns the voltage unbalance of three line-to-line voltages in
 // percent, as NEMA MG 1 defines it: the largest deviation from the average ÷ the
 // average × 100 (460, 467, 450 V → 1.96 %). NEMA MG 1 §14.35 has motors derated
