@@ -487,48 +487,21 @@ func Create[T designRecord](ctx context.Context, db *DB, a Actor, rec T) error {
 		return err
 	}
 	assigned := *keys.id == ""
-	if assigned {
-		*keys.id = NewID()
-	}
-	*rec.meta() = recordMeta{}
 	at, now := db.stamp()
-	var seq int64
 	err := db.writeTx(ctx, func(tx *sql.Tx) error {
 		u, err := jobUnits(tx, *keys.jobID)
 		if err != nil {
 			return err
 		}
-		if err := rec.validate(u); err != nil {
-			return err
-		}
-		if err := checkRefs(tx, *keys.jobID, rec.refs()); err != nil {
-			return err
-		}
-		_, data, err := encodeData(rec, recordColumnKeys)
-		if err != nil {
-			return err
-		}
-		if seq, err = nextSeq(tx, *keys.jobID); err != nil {
-			return err
-		}
-		cols, vals := "id, job_id, tag, data, seq, created_at, updated_at", "?, ?, ?, ?, ?, ?, ?"
-		args := []any{*keys.id, *keys.jobID, keys.tag, data, seq, now, now}
-		if keys.systemID != nil {
-			cols, vals, args = cols+", system_id", vals+", ?", append(args, *keys.systemID)
-		}
-		_, err = tx.Exec("INSERT INTO "+k.table+" ("+cols+") VALUES ("+vals+")", args...)
-		if err := constraintError(err, k, keys); err != nil {
-			return err
-		}
-		return addAudit(tx, at, a, *keys.jobID, "create", k.entity, *keys.id, map[string]any{"seq": seq, "tag": keys.tag})
+		return createRecordTx(tx, at, now, a, rec, u, nil)
 	})
 	if err != nil {
 		if assigned {
 			*keys.id = ""
 		}
+		*rec.meta() = recordMeta{}
 		return wrapStore("create "+k.entity, err)
 	}
-	*rec.meta() = recordMeta{Seq: seq, CreatedAt: at, UpdatedAt: at}
 	return nil
 }
 
@@ -543,62 +516,21 @@ func Update[T designRecord](ctx context.Context, db *DB, a Actor, rec T) error {
 		return Errorf(NotFound, "id", "%s %q not found", k.entity, *keys.id)
 	}
 	at, now := db.stamp()
-	var m recordMeta
 	err := db.writeTx(ctx, func(tx *sql.Tx) error {
-		var oldData, created string
-		err := tx.QueryRow("SELECT data, seq, created_at FROM "+k.table+" WHERE id = ? AND job_id = ? AND deleted = 0",
-			*keys.id, *keys.jobID).Scan(&oldData, &m.Seq, &created)
-		if errors.Is(err, sql.ErrNoRows) {
-			return Errorf(NotFound, "id", "%s %s not found in this job", k.entity, *keys.id)
-		}
-		if err != nil {
-			return err
-		}
-		if m.CreatedAt, err = parseStamp(created); err != nil {
+		// The record first, so an unknown one is "not found" whatever its job.
+		if _, err := recordChanged(tx, rec); err != nil {
 			return err
 		}
 		u, err := jobUnits(tx, *keys.jobID)
 		if err != nil {
 			return err
 		}
-		if err := rec.validate(u); err != nil {
-			return err
-		}
-		if err := checkRefs(tx, *keys.jobID, rec.refs()); err != nil {
-			return err
-		}
-		fields, data, err := encodeData(rec, recordColumnKeys)
-		if err != nil {
-			return err
-		}
-		changed := changedKeys(oldData, fields)
-		if len(changed) == 0 {
-			var updated string
-			if err := tx.QueryRow("SELECT updated_at FROM "+k.table+" WHERE id = ?", *keys.id).Scan(&updated); err != nil {
-				return err
-			}
-			m.UpdatedAt, err = parseStamp(updated)
-			return err
-		}
-		if m.Seq, err = nextSeq(tx, *keys.jobID); err != nil {
-			return err
-		}
-		set, args := "tag = ?, data = ?, seq = ?, updated_at = ?", []any{keys.tag, data, m.Seq, now}
-		if keys.systemID != nil {
-			set, args = set+", system_id = ?", append(args, *keys.systemID)
-		}
-		_, err = tx.Exec("UPDATE "+k.table+" SET "+set+" WHERE id = ?", append(args, *keys.id)...)
-		if err := constraintError(err, k, keys); err != nil {
-			return err
-		}
-		m.UpdatedAt = at
-		return addAudit(tx, at, a, *keys.jobID, "update", k.entity, *keys.id,
-			map[string]any{"seq": m.Seq, "tag": keys.tag, "changed": changed})
+		_, err = updateRecordTx(tx, at, now, a, rec, u, nil)
+		return err
 	})
 	if err != nil {
 		return wrapStore("update "+k.entity, err)
 	}
-	*rec.meta() = m
 	return nil
 }
 

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -1107,7 +1108,12 @@ func (c *resultsCalc) traverse(t *Traverse) TraverseResult {
 			res.Points[i].Velocity = resPtr(tr.Velocities[i].In(c.u))
 		}
 	}
-	res.Warnings = append(res.Warnings, tr.Warnings...)
+	for _, w := range tr.Warnings {
+		// measure repeats the layout's warnings, which are already listed.
+		if !slices.Contains(res.Warnings, w) {
+			res.Warnings = append(res.Warnings, w)
+		}
+	}
 	tf.computed, tf.flow, tf.stdFactor, tf.accPct, tf.accKnown = true, tr.Flow, dens.stdFactor, accPct, accKnown
 	if _, ok := c.sysTrav[t.SystemID]; !ok {
 		c.sysTrav[t.SystemID] = tf
