@@ -3,7 +3,7 @@ module fieldtab
 go 1.26
 
 require (
-	github.com/gorilla/mux v1.8.1 // indirect
-	github.com/mattn/go-sqlite3 v1.14.53 // indirect
-	github.com/skip2/go-qrcode v0.0.0-20200617195104-da1b6568686e // indirect
+	github.com/gorilla/mux v1.8.1
+	github.com/mattn/go-sqlite3 v1.14.53
+	github.com/skip2/go-qrcode v0.0.0-20200617195104-da1b6568686e
 )

@@ -1,0 +1,152 @@
+package server
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"fmt"
+	"io"
+	"net/http"
+	"slices"
+	"sync"
+	"sync/atomic"
+	"testing"
+	"time"
+
+	"fieldtab/schema"
+)
+
+// benchJob makes a job with a system and n outlets through the store.
+func benchJob(tb testing.TB, db *schema.DB, n int) (job string, outlets []string) {
+	tb.Helper()
+	ctx := context.Background()
+	a := schema.Actor{Name: "Lead", Role: schema.RoleLead}
+	j := &schema.Job{Name: "Bench tower", Units: "ip"}
+	if err := db.CreateJob(ctx, a, j); err != nil {
+		tb.Fatal(err)
+	}
+	var systems []string
+	for i := range max(1, n/150) {
+		sys := &schema.System{JobID: j.ID, Tag: fmt.Sprintf("AHU-%d", i+1), Kind: "air_handler", Design: schema.SystemDesign{Airflow: 60000}}
+		if err := schema.Create(ctx, db, a, sys); err != nil {
+			tb.Fatal(err)
+		}
+		systems = append(systems, sys.ID)
+	}
+	for i := range n {
+		o := &schema.Outlet{JobID: j.ID, SystemID: systems[i%len(systems)], Tag: fmt.Sprintf("S-%d", i+1), Room: fmt.Sprintf("Room %d", 100+i/4),
+			Kind: "supply", DesignFlow: 400, Method: "hood", Factor: 1}
+		if err := schema.Create(ctx, db, a, o); err != nil {
+			tb.Fatal(err)
+		}
+		outlets = append(outlets, o.ID)
+	}
+	return j.ID, outlets
+}
+
+// BenchmarkReadingsIngest posts batches of 20 readings from 20 concurrent
+// clients (each with its own device token and connection) through the real
+// handler stack to a store on disk. One op is one batch.
+func BenchmarkReadingsIngest(b *testing.B) {
+	const clients, batchSize = 20, 20
+	ts := MustOpenServer(b)
+	job, outlets := benchJob(b, ts.db, 100)
+	tokens := make([]string, clients)
+	for i := range tokens {
+		var err error
+		if _, tokens[i], err = ts.db.CreateDevice(context.Background(), schema.Actor{Name: "bench"}, fmt.Sprintf("Phone %d", i), schema.RoleTechnician); err != nil {
+			b.Fatal(err)
+		}
+	}
+	url := ts.ts.URL + "/api/v1/jobs/" + job + "/readings"
+	tr := &http.Transport{MaxIdleConns: clients * 2, MaxIdleConnsPerHost: clients * 2}
+	defer tr.CloseIdleConnections()
+	cli := &http.Client{Transport: tr}
+
+	var (
+		mu        sync.Mutex
+		latencies []time.Duration
+		next      atomic.Int64
+		failed    atomic.Int64
+	)
+	b.SetParallelism((clients + 1) / 2) // × GOMAXPROCS (2 here) goroutines
+	b.ResetTimer()
+	b.RunParallel(func(pb *testing.PB) {
+		token := tokens[int(next.Add(1)-1)%clients]
+		var mine []time.Duration
+		v := 400.0
+		for pb.Next() {
+			rs := make([]schema.Reading, batchSize)
+			for i := range rs {
+				rs[i] = flowReading(outlets[int(next.Add(1))%len(outlets)], v)
+			}
+			body, _ := json.Marshal(map[string]any{"readings": rs})
+			req, _ := http.NewRequest(http.MethodPost, url, bytes.NewReader(body))
+			req.Header.Set("Authorization", "Bearer "+token)
+			req.Header.Set("Content-Type", "application/json")
+			start := time.Now()
+			resp, err := cli.Do(req)
+			if err != nil {
+				failed.Add(1)
+				continue
+			}
+			_, _ = io.Copy(io.Discard, resp.Body)
+			resp.Body.Close()
+			mine = append(mine, time.Since(start))
+			if resp.StatusCode != http.StatusOK {
+				failed.Add(1)
+			}
+		}
+		mu.Lock()
+		latencies = append(latencies, mine...)
+		mu.Unlock()
+	})
+	b.StopTimer()
+	if n := failed.Load(); n > 0 {
+		b.Fatalf("%d batches failed", n)
+	}
+	slices.Sort(latencies)
+	if len(latencies) > 0 {
+		b.ReportMetric(float64(len(latencies)*batchSize)/b.Elapsed().Seconds(), "readings/s")
+		b.ReportMetric(float64(latencies[len(latencies)*99/100].Microseconds())/1000, "p99-ms")
+		b.ReportMetric(float64(latencies[len(latencies)/2].Microseconds())/1000, "p50-ms")
+	}
+}
+
+// BenchmarkJobGet1500Outlets gets a job of 1,500 outlets, each read as found
+// and final, with its results.
+func BenchmarkJobGet1500Outlets(b *testing.B) {
+	ts := MustOpenServer(b)
+	job, outlets := benchJob(b, ts.db, 1500)
+	var rs []schema.Reading
+	for i, o := range outlets {
+		found := flowReading(o, 300+float64(i%200))
+		final := flowReading(o, 380+float64(i%40))
+		final.Stage = schema.StageFinal
+		rs = append(rs, found, final)
+	}
+	for len(rs) > 0 {
+		n := min(len(rs), schema.MaxReadingsBatch)
+		if _, err := ts.db.AddReadings(context.Background(), schema.Actor{Name: "Sam"}, job, rs[:n]); err != nil {
+			b.Fatal(err)
+		}
+		rs = rs[n:]
+	}
+	url := ts.ts.URL + "/api/v1/jobs/" + job
+	var size int64
+	b.ResetTimer()
+	for b.Loop() {
+		req, _ := http.NewRequest(http.MethodGet, url, nil)
+		req.Header.Set("Authorization", "Bearer "+ts.tech)
+		resp, err := ts.ts.Client().Do(req)
+		if err != nil {
+			b.Fatal(err)
+		}
+		size, _ = io.Copy(io.Discard, resp.Body)
+		resp.Body.Close()
+		if resp.StatusCode != http.StatusOK {
+			b.Fatalf("status %d", resp.StatusCode)
+		}
+	}
+	b.ReportMetric(float64(size)/1e6, "MB/response")
+}

@@ -1,0 +1,104 @@
+package server
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"net/http"
+
+	"github.com/gorilla/mux"
+
+	"fieldtab/schema"
+)
+
+func (s *Server) registerReadingRoutes(r *mux.Router) {
+	r.HandleFunc("/jobs/{job}/readings", s.writing(s.handleReadingsCreate)).Methods(http.MethodPost)
+	r.HandleFunc("/jobs/{job}/readings", s.handleReadingsList).Methods(http.MethodGet)
+}
+
+// readingsRequest is a batch of readings, as a device's outbox sends it. Its
+// items are decoded one by one after counting them, so a body of a million
+// tiny items costs a slice of raw messages, not a million readings.
+type readingsRequest struct {
+	Readings []json.RawMessage `json:"readings"`
+}
+
+// readingsResponse gives each reading's fate, in the batch's order, and the
+// highest change number among them (0 when none was stored or known).
+type readingsResponse struct {
+	Results []schema.ReadingResult `json:"results"`
+	Seq     int64                  `json:"seq"`
+}
+
+// handleReadingsCreate stores a batch in one transaction. A reading the store
+// rejects is reported in its result and keeps none of the others from being
+// stored; only a body that is not a batch at all is refused as a whole.
+func (s *Server) handleReadingsCreate(w http.ResponseWriter, r *http.Request) {
+	var req readingsRequest
+	if err := decodeJSON(w, r, &req); err != nil {
+		s.writeError(w, r, err)
+		return
+	}
+	if req.Readings == nil {
+		s.writeError(w, r, schema.Errorf(schema.Invalid, "readings", "is required: a list of at most %d readings", schema.MaxReadingsBatch))
+		return
+	}
+	if n := len(req.Readings); n > schema.MaxReadingsBatch {
+		s.writeError(w, r, schema.Errorf(schema.Invalid, "readings", "a batch holds at most %d readings; this one has %d", schema.MaxReadingsBatch, n))
+		return
+	}
+	rs := make([]schema.Reading, len(req.Readings))
+	for i, raw := range req.Readings {
+		if err := decodeItem(raw, &rs[i]); err != nil {
+			s.writeError(w, r, itemError(err, "readings", i))
+			return
+		}
+	}
+	results, err := s.DB.AddReadings(r.Context(), actorOf(r), jobID(r), rs)
+	if err != nil {
+		s.writeError(w, r, err)
+		return
+	}
+	resp := readingsResponse{Results: results}
+	for _, res := range results {
+		resp.Seq = max(resp.Seq, res.Seq)
+	}
+	writeJSON(w, http.StatusOK, resp)
+}
+
+// handleReadingsList answers every reading of the job, superseded and void
+// ones included, in the order stored.
+func (s *Server) handleReadingsList(w http.ResponseWriter, r *http.Request) {
+	rs, err := s.DB.Readings(r.Context(), jobID(r))
+	if err != nil {
+		s.writeError(w, r, err)
+		return
+	}
+	writeJSON(w, http.StatusOK, map[string]any{"readings": rs})
+}
+
+// decodeItem decodes one JSON value (an item of a list already read) into v,
+// refusing unknown fields as decodeJSON does.
+func decodeItem(raw json.RawMessage, v any) error {
+	dec := json.NewDecoder(bytes.NewReader(raw))
+	dec.DisallowUnknownFields()
+	if err := dec.Decode(v); err != nil {
+		return decodeError(err)
+	}
+	return nil
+}
+
+// itemError names item i of list in a decoding error: field "readings[3].value".
+func itemError(err error, list string, i int) error {
+	field := fmt.Sprintf("%s[%d]", list, i)
+	var he *httpError
+	if !errors.As(err, &he) {
+		return err
+	}
+	out := &httpError{status: he.status, field: field, msg: fmt.Sprintf("item %d of %s: %s", i, list, he.msg)}
+	if he.field != "" {
+		out.field += "." + he.field
+	}
+	return out
+}
