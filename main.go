@@ -54,6 +54,14 @@ func (m *Main) Run(ctx context.Context, args []string) error {
 	switch args[0] {
 	case "calc":
 		return m.runCalc(ctx, args[1:])
+	case "serve":
+		return m.runServe(ctx, args[1:], false)
+	case "demo":
+		return m.runServe(ctx, args[1:], true)
+	case "device":
+		return m.runDevice(ctx, args[1:])
+	case "backup":
+		return m.runBackup(ctx, args[1:])
 	case "help", "-h", "--help":
 		m.usage()
 		return nil
@@ -70,6 +78,10 @@ func (m *Main) usage() {
 	fmt.Fprint(m.Stderr, `usage: fieldtab <command> [flags]
 
 commands:
+  serve    run the field server (--db PATH, --addr HOST:PORT, --demo)
+  demo     serve with the demo job loaded (same as serve --demo)
+  device   add a device and print its token for scripts (device add --name N --role R)
+  backup   copy the store safely while it is in use (--db PATH --out FILE)
   calc     field arithmetic with JSON output (fieldtab calc help)
 `)
 }

@@ -1,0 +1,205 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"log/slog"
+	"net"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/skip2/go-qrcode"
+
+	"fieldtab/schema"
+	"fieldtab/server"
+)
+
+// defaultPort is where fieldtab listens unless told otherwise: fixed, so a
+// crew's bookmarks keep working from one day to the next.
+const defaultPort = 8470
+
+// defaultDBPath is the store in the user's data directory.
+func defaultDBPath() (string, error) {
+	var dir string
+	switch runtime.GOOS {
+	case "windows":
+		dir = os.Getenv("LocalAppData")
+	case "darwin":
+		home, err := os.UserHomeDir()
+		if err != nil {
+			return "", err
+		}
+		dir = filepath.Join(home, "Library", "Application Support")
+	default:
+		dir = os.Getenv("XDG_DATA_HOME")
+		if dir == "" {
+			home, err := os.UserHomeDir()
+			if err != nil {
+				return "", err
+			}
+			dir = filepath.Join(home, ".local", "share")
+		}
+	}
+	if dir == "" {
+		return "", errors.New("no user data directory; give --db")
+	}
+	return filepath.Join(dir, "fieldtab", "fieldtab.db"), nil
+}
+
+// openDB opens --db, or the default store when path is "".
+func openDB(ctx context.Context, path string) (*schema.DB, error) {
+	if path == "" {
+		var err error
+		if path, err = defaultDBPath(); err != nil {
+			return nil, err
+		}
+	}
+	return schema.Open(ctx, path)
+}
+
+func newFlagSet(name string, stderr io.Writer) *flag.FlagSet {
+	fs := flag.NewFlagSet(name, flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	return fs
+}
+
+// runServe starts the field server and blocks until ctx ends (SIGINT/SIGTERM),
+// then shuts down gracefully, letting in-flight writes finish.
+func (m *Main) runServe(ctx context.Context, args []string, demo bool) error {
+	fs := newFlagSet("serve", m.Stderr)
+	dbPath := fs.String("db", "", "SQLite store (default: fieldtab/fieldtab.db in the user's data directory)")
+	addr := fs.String("addr", ":"+strconv.Itoa(defaultPort), "listen address host:port (default: every interface, so phones on the site Wi-Fi can join)")
+	demoFlag := fs.Bool("demo", demo, "load the demo job if the store has none")
+	if err := fs.Parse(args); err != nil {
+		return errUsage
+	}
+	db, err := openDB(ctx, *dbPath)
+	if err != nil {
+		return err
+	}
+	defer db.Close()
+	if *demoFlag {
+		id, created, err := ensureDemo(ctx, db)
+		if err != nil {
+			return fmt.Errorf("demo job: %w", err)
+		}
+		if created {
+			fmt.Fprintf(m.Stdout, "Loaded the demo job (%s).\n", id)
+		}
+	}
+	logger := slog.New(slog.NewTextHandler(m.Stderr, &slog.HandlerOptions{Level: slog.LevelInfo}))
+	srv := server.New(db, *addr, logger)
+	if err := srv.Open(); err != nil {
+		return err
+	}
+	m.printJoinInfo(srv, db.Path)
+	<-ctx.Done()
+	fmt.Fprintln(m.Stdout, "Shutting down: finishing requests in flight…")
+	shutdownCtx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
+	defer cancel()
+	return srv.Close(shutdownCtx)
+}
+
+// printJoinInfo shows where phones can reach the server and the codes to join.
+func (m *Main) printJoinInfo(srv *server.Server, dbPath string) {
+	port := srv.Port()
+	fmt.Fprintf(m.Stdout, "fieldtab is serving the store %s\n", dbPath)
+	urls := []string{fmt.Sprintf("http://localhost:%d/", port)}
+	for _, ip := range lanAddresses() {
+		urls = append(urls, fmt.Sprintf("http://%s/", net.JoinHostPort(ip, strconv.Itoa(port))))
+	}
+	fmt.Fprintln(m.Stdout, "Open on a phone or tablet on the same network:")
+	for _, u := range urls {
+		fmt.Fprintln(m.Stdout, "  "+u)
+	}
+	lead, leadExp, err1 := srv.NewJoinCode(schema.RoleLead)
+	crew, crewExp, err2 := srv.NewJoinCode(schema.RoleTechnician)
+	if err := errors.Join(err1, err2); err != nil {
+		fmt.Fprintln(m.Stderr, "fieldtab: join codes:", err)
+		return
+	}
+	fmt.Fprintf(m.Stdout, "Lead join code:  %s  (one device, until %s)\n", lead, leadExp.Local().Format("15:04"))
+	fmt.Fprintf(m.Stdout, "Crew join code:  %s  (any number of devices, until %s)\n", crew, crewExp.Local().Format("15:04"))
+	target := urls[len(urls)-1] + "#join=" + strings.ReplaceAll(crew, "-", "")
+	if qr, err := qrcode.New(target, qrcode.Medium); err == nil {
+		fmt.Fprintf(m.Stdout, "Scan to join the crew (%s):\n%s", target, qr.ToSmallString(false))
+	}
+	fmt.Fprintln(m.Stdout, "Safety: roof, ladder, rotating-equipment and live-electrical work follow the site's safety plan; fieldtab records readings, it does not make the work safe.")
+}
+
+// lanAddresses lists this machine's non-loopback IPv4 addresses, the ones a
+// phone on the site Wi-Fi can reach.
+func lanAddresses() []string {
+	addrs, err := net.InterfaceAddrs()
+	if err != nil {
+		return nil
+	}
+	var out []string
+	for _, a := range addrs {
+		ipn, ok := a.(*net.IPNet)
+		if !ok || ipn.IP.IsLoopback() || ipn.IP.To4() == nil || ipn.IP.IsLinkLocalUnicast() {
+			continue
+		}
+		out = append(out, ipn.IP.String())
+	}
+	return out
+}
+
+// runDevice handles `fieldtab device add --db X --name N --role R`, printing a
+// token for scripts.
+func (m *Main) runDevice(ctx context.Context, args []string) error {
+	if len(args) == 0 || args[0] != "add" {
+		fmt.Fprintln(m.Stderr, "usage: fieldtab device add [--db PATH] --name NAME --role lead|technician")
+		return errUsage
+	}
+	fs := newFlagSet("device add", m.Stderr)
+	dbPath := fs.String("db", "", "SQLite store (default: the user's data directory)")
+	name := fs.String("name", "", "device name, e.g. \"script on the lead's laptop\"")
+	role := fs.String("role", schema.RoleTechnician, "lead or technician")
+	if err := fs.Parse(args[1:]); err != nil {
+		return errUsage
+	}
+	db, err := openDB(ctx, *dbPath)
+	if err != nil {
+		return err
+	}
+	defer db.Close()
+	d, token, err := db.CreateDevice(ctx, schema.Actor{Name: "command line", Role: schema.RoleLead}, *name, *role)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintln(m.Stdout, token)
+	fmt.Fprintf(m.Stderr, "device %s (%s, %s) added; the token above is shown once\n", d.ID, d.Name, d.Role)
+	return nil
+}
+
+// runBackup handles `fieldtab backup --db X --out Y`, safe while serving.
+func (m *Main) runBackup(ctx context.Context, args []string) error {
+	fs := newFlagSet("backup", m.Stderr)
+	dbPath := fs.String("db", "", "SQLite store (default: the user's data directory)")
+	out := fs.String("out", "", "backup file to write (must not exist)")
+	if err := fs.Parse(args); err != nil {
+		return errUsage
+	}
+	if *out == "" {
+		fmt.Fprintln(m.Stderr, "fieldtab backup: --out is required")
+		return errUsage
+	}
+	db, err := openDB(ctx, *dbPath)
+	if err != nil {
+		return err
+	}
+	defer db.Close()
+	if err := db.Backup(ctx, *out); err != nil {
+		return err
+	}
+	fmt.Fprintf(m.Stdout, "backed up %s to %s\n", db.Path, *out)
+	return nil
+}
