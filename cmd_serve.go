@@ -112,7 +112,14 @@ func (m *Main) printJoinInfo(srv *server.Server, dbPath string) {
 	port := srv.Port()
 	fmt.Fprintf(m.Stdout, "fieldtab is serving the store %s\n", dbPath)
 	urls := []string{fmt.Sprintf("http://localhost:%d/", port)}
-	for _, ip := range lanAddresses() {
+	hosts := lanAddresses()
+	if host, _, err := net.SplitHostPort(srv.Addr); err == nil && host != "" && host != "0.0.0.0" && host != "::" {
+		hosts = []string{host} // bound to one address: only that one answers
+		if ip := net.ParseIP(host); ip != nil && ip.IsLoopback() {
+			hosts = nil
+		}
+	}
+	for _, ip := range hosts {
 		urls = append(urls, fmt.Sprintf("http://%s/", net.JoinHostPort(ip, strconv.Itoa(port))))
 	}
 	fmt.Fprintln(m.Stdout, "Open on a phone or tablet on the same network:")

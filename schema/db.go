@@ -37,6 +37,16 @@ type DB struct {
 
 	write *sql.DB
 	read  *sql.DB
+
+	// ckpt runs WAL checkpoints off the writer's path; stop ends its loop.
+	ckpt     *sql.DB
+	stopCkpt chan struct{}
+	ckptDone chan struct{}
+
+	// writeTurn hands the writer connection to waiting writers in arrival order.
+	// database/sql gives a freed connection to any waiter, which under load left
+	// some requests waiting many turns (a p99 of 300 ms at a p50 of 45 ms).
+	writeTurn chan struct{}
 }
 
 // Open opens (creating if needed, with mode 0600) the store at path, applies any
@@ -49,7 +59,7 @@ func Open(ctx context.Context, path string) (*DB, error) {
 	if err := createPrivate(path); err != nil {
 		return nil, fmt.Errorf("open %s: %w", path, err)
 	}
-	db := &DB{Path: path, Now: func() time.Time { return time.Now().UTC() }}
+	db := &DB{Path: path, Now: func() time.Time { return time.Now().UTC() }, writeTurn: make(chan struct{}, 1)}
 	var err error
 	if db.write, err = sql.Open("sqlite3", dsn(path, false)); err != nil {
 		return nil, fmt.Errorf("open %s: %w", path, err)
@@ -69,12 +79,61 @@ func Open(ctx context.Context, path string) (*DB, error) {
 		return nil, fmt.Errorf("open %s: %w", path, err)
 	}
 	db.read.SetMaxOpenConns(4)
+	if err := db.startCheckpoints(ctx); err != nil {
+		db.Close()
+		return nil, err
+	}
 	return db, nil
+}
+
+// checkpointEvery is how often the background checkpoint runs.
+const checkpointEvery = 250 * time.Millisecond
+
+// startCheckpoints moves WAL checkpoints off the commit path. SQLite's own
+// automatic checkpoint runs inside whichever commit crosses 1,000 pages and
+// held the one writer for 50–90 ms under load; a PASSIVE checkpoint from a
+// connection of its own never blocks writers or readers. Should the writer's
+// connection ever be replaced, the new one checkpoints automatically again:
+// slower, never unsafe.
+func (db *DB) startCheckpoints(ctx context.Context) error {
+	if _, err := db.write.ExecContext(ctx, "PRAGMA wal_autocheckpoint = 0"); err != nil {
+		return fmt.Errorf("open %s: %w", db.Path, err)
+	}
+	var err error
+	if db.ckpt, err = sql.Open("sqlite3", dsn(db.Path, false)); err != nil {
+		return fmt.Errorf("open %s: %w", db.Path, err)
+	}
+	db.ckpt.SetMaxOpenConns(1)
+	db.stopCkpt, db.ckptDone = make(chan struct{}), make(chan struct{})
+	go func() {
+		defer close(db.ckptDone)
+		t := time.NewTicker(checkpointEvery)
+		defer t.Stop()
+		for {
+			select {
+			case <-db.stopCkpt:
+				return
+			case <-t.C:
+				// A failed passive checkpoint is retried on the next tick; the WAL
+				// only grows meanwhile.
+				_, _ = db.ckpt.Exec("PRAGMA wal_checkpoint(PASSIVE)")
+			}
+		}
+	}()
+	return nil
 }
 
 // Close closes both connection pools.
 func (db *DB) Close() error {
 	var errs []error
+	if db.stopCkpt != nil {
+		close(db.stopCkpt)
+		<-db.ckptDone
+		// Fold the WAL into the main file so a copied .db is whole on its own.
+		_, err := db.ckpt.Exec("PRAGMA wal_checkpoint(TRUNCATE)")
+		errs = append(errs, err, db.ckpt.Close())
+		db.stopCkpt = nil
+	}
 	if db.read != nil {
 		errs = append(errs, db.read.Close())
 	}
@@ -239,6 +298,13 @@ func (db *DB) now() string { return db.Now().UTC().Format(timeLayout) }
 // writeTx runs fn in an immediate transaction on the writer connection and
 // commits it, or rolls it back if fn or the commit fails.
 func (db *DB) writeTx(ctx context.Context, fn func(tx *sql.Tx) error) error {
+	// Goroutines blocked sending on a channel are woken first-in, first-out.
+	select {
+	case db.writeTurn <- struct{}{}:
+	case <-ctx.Done():
+		return ctx.Err()
+	}
+	defer func() { <-db.writeTurn }()
 	tx, err := db.write.BeginTx(ctx, nil)
 	if err != nil {
 		return err

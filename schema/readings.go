@@ -214,13 +214,23 @@ func (db *DB) AddReadings(ctx context.Context, a Actor, jobID string, rs []Readi
 				b.insert.Close()
 			}
 		}()
+		if err := tx.QueryRowContext(ctx, "SELECT seq FROM jobs WHERE id = ?", jobID).Scan(&b.seq); err != nil {
+			return fmt.Errorf("job %s: change number: %w", jobID, err)
+		}
+		startSeq := b.seq
 		for i := range rs {
 			r := rs[i]
 			if results[i], err = b.add(a, &r); err != nil {
 				return err
 			}
 		}
-		return nil
+		if b.seq == startSeq {
+			return nil
+		}
+		// One update for the batch rather than one per reading: the batch holds
+		// the only writer, so nobody else hands out numbers meanwhile.
+		_, err = tx.ExecContext(ctx, "UPDATE jobs SET seq = ? WHERE id = ?", b.seq, jobID)
+		return err
 	})
 	if err != nil {
 		return nil, wrapStore("add readings", err)
@@ -239,6 +249,7 @@ type readingBatch struct {
 	stamp    string
 	subjects map[string]*subjectInfo // by kind + "/" + id
 	known    map[string]error        // instrument and device checks, by table + "/" + id
+	seq      int64                   // the job's last change number handed out
 	lookup   *sql.Stmt               // a stored reading's job and seq, by id
 	insert   *sql.Stmt               // insertReadingSQL, prepared on first use
 }
@@ -293,10 +304,8 @@ func (b *readingBatch) add(a Actor, r *Reading) (ReadingResult, error) {
 		}
 		return res, err
 	}
-	seq, err := nextSeq(b.tx, b.jobID)
-	if err != nil {
-		return res, err
-	}
+	seq := b.seq + 1
+	var err error
 	if b.insert == nil {
 		if b.insert, err = b.tx.PrepareContext(b.ctx, insertReadingSQL); err != nil {
 			return res, fmt.Errorf("store reading: %w", err)
@@ -308,6 +317,7 @@ func (b *readingBatch) add(a Actor, r *Reading) (ReadingResult, error) {
 	if err != nil {
 		return res, fmt.Errorf("store reading %s: %w", r.ID, err)
 	}
+	b.seq = seq
 	res.Status, res.Seq = ReadingStored, seq
 	return res, nil
 }

@@ -113,6 +113,82 @@ func BenchmarkReadingsIngest(b *testing.B) {
 	}
 }
 
+// BenchmarkReadingsIngestAtTarget offers the target load: 20 clients each post
+// a batch of 20 readings every 80 ms, 5,000 readings/s in all, and reports the
+// latency at that load. (BenchmarkReadingsIngest, with clients posting back to
+// back, measures the ceiling; its latency is queueing behind the one writer.)
+func BenchmarkReadingsIngestAtTarget(b *testing.B) {
+	const clients, batchSize, period = 20, 20, 80 * time.Millisecond
+	ts := MustOpenServer(b)
+	job, outlets := benchJob(b, ts.db, 100)
+	tokens := make([]string, clients)
+	for i := range tokens {
+		var err error
+		if _, tokens[i], err = ts.db.CreateDevice(context.Background(), schema.Actor{Name: "bench"}, fmt.Sprintf("Phone %d", i), schema.RoleTechnician); err != nil {
+			b.Fatal(err)
+		}
+	}
+	url := ts.ts.URL + "/api/v1/jobs/" + job + "/readings"
+	tr := &http.Transport{MaxIdleConns: clients * 2, MaxIdleConnsPerHost: clients * 2}
+	defer tr.CloseIdleConnections()
+	cli := &http.Client{Transport: tr}
+	var (
+		mu        sync.Mutex
+		latencies []time.Duration
+		sent      atomic.Int64
+		next      atomic.Int64
+		failed    atomic.Int64
+		wg        sync.WaitGroup
+	)
+	b.ResetTimer()
+	for c := range clients {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			time.Sleep(time.Duration(c) * period / clients) // spread the clients over the period
+			tick := time.NewTicker(period)
+			defer tick.Stop()
+			var mine []time.Duration
+			for sent.Add(1) <= int64(b.N) {
+				rs := make([]schema.Reading, batchSize)
+				for i := range rs {
+					rs[i] = flowReading(outlets[int(next.Add(1))%len(outlets)], 400)
+				}
+				body, _ := json.Marshal(map[string]any{"readings": rs})
+				req, _ := http.NewRequest(http.MethodPost, url, bytes.NewReader(body))
+				req.Header.Set("Authorization", "Bearer "+tokens[c])
+				start := time.Now()
+				resp, err := cli.Do(req)
+				if err != nil {
+					failed.Add(1)
+				} else {
+					_, _ = io.Copy(io.Discard, resp.Body)
+					resp.Body.Close()
+					if resp.StatusCode != http.StatusOK {
+						failed.Add(1)
+					}
+					mine = append(mine, time.Since(start))
+				}
+				<-tick.C
+			}
+			mu.Lock()
+			latencies = append(latencies, mine...)
+			mu.Unlock()
+		}()
+	}
+	wg.Wait()
+	b.StopTimer()
+	if n := failed.Load(); n > 0 {
+		b.Fatalf("%d batches failed", n)
+	}
+	slices.Sort(latencies)
+	if len(latencies) > 0 {
+		b.ReportMetric(float64(len(latencies)*batchSize)/b.Elapsed().Seconds(), "readings/s")
+		b.ReportMetric(float64(latencies[len(latencies)*99/100].Microseconds())/1000, "p99-ms")
+		b.ReportMetric(float64(latencies[len(latencies)/2].Microseconds())/1000, "p50-ms")
+	}
+}
+
 // BenchmarkJobGet1500Outlets gets a job of 1,500 outlets, each read as found
 // and final, with its results.
 func BenchmarkJobGet1500Outlets(b *testing.B) {
