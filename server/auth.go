@@ -3,6 +3,7 @@ package server
 import (
 	"context"
 	"crypto/rand"
+	"fmt"
 	"net"
 	"net/http"
 	"strings"
@@ -10,6 +11,7 @@ import (
 	"time"
 
 	"github.com/gorilla/mux"
+	"github.com/skip2/go-qrcode"
 
 	"fieldtab/schema"
 )
@@ -244,7 +246,16 @@ func (s *Server) handleJoinCodeCreate(w http.ResponseWriter, r *http.Request) {
 		s.writeError(w, r, err)
 		return
 	}
-	writeJSON(w, http.StatusCreated, map[string]any{"code": code, "role": req.Role, "expires_at": expires})
+	// The lead's screen shows the code and a QR code of the address this request
+	// came in on, which is one the crew's phones can reach too.
+	joinURL := "http://" + r.Host + "/#join=" + strings.ReplaceAll(code, "-", "")
+	png, err := qrcode.Encode(joinURL, qrcode.Medium, 256)
+	if err != nil {
+		s.writeError(w, r, fmt.Errorf("join code QR: %w", err))
+		return
+	}
+	writeJSON(w, http.StatusCreated, map[string]any{"code": code, "role": req.Role, "expires_at": expires,
+		"join_url": joinURL, "qr_png": png})
 }
 
 func (s *Server) handleDeviceList(w http.ResponseWriter, r *http.Request) {

@@ -1,7 +1,9 @@
 package server
 
 import (
+	"bytes"
 	"net/http"
+	"strings"
 	"testing"
 	"time"
 
@@ -161,10 +163,17 @@ func TestPairing(t *testing.T) {
 	})
 	t.Run("OKJoinCodeEndpoint", func(t *testing.T) {
 		ts := MustOpenServer(t)
-		var jc struct{ Code, Role string }
+		var jc struct {
+			Code, Role string
+			JoinURL    string `json:"join_url"`
+			QRPNG      []byte `json:"qr_png"`
+		}
 		r := ts.do(t, "POST", "/join-codes", ts.lead, map[string]string{"role": "technician"})
 		want(t, r, 201, "")
 		r.decode(t, &jc)
+		if !strings.HasSuffix(jc.JoinURL, "/#join="+strings.ReplaceAll(jc.Code, "-", "")) || !bytes.HasPrefix(jc.QRPNG, []byte("\x89PNG")) {
+			t.Errorf("join_url %q, qr_png %d bytes: want the join address and a PNG of it", jc.JoinURL, len(jc.QRPNG))
+		}
 		want(t, ts.do(t, "POST", "/pair", "", map[string]string{"code": jc.Code, "name": "Phone"}), 201, "")
 		want(t, ts.do(t, "POST", "/join-codes", ts.lead, map[string]string{"role": "owner"}), 400, "role")
 	})
