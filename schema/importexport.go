@@ -1279,16 +1279,9 @@ const maxJobDocumentBytes = 256 << 20
 // reading, superseded and void ones included. Seq numbers and readings'
 // received_at are the exporting server's; an importing server keeps its own.
 type JobDocument struct {
-	Format        string         `json:"format"`  // JobDocumentFormat
-	Version       int            `json:"version"` // JobDocumentVersion
-	Job           Job            `json:"job"`
-	Instruments   []Instrument   `json:"instruments"`
-	Systems       []System       `json:"systems"`
-	Outlets       []Outlet       `json:"outlets"`
-	Traverses     []Traverse     `json:"traverses"`
-	CapacityTests []CapacityTest `json:"capacity_tests"`
-	WaterTests    []WaterTest    `json:"water_tests"`
-	Readings      []Reading      `json:"readings"`
+	Format  string `json:"format"`  // JobDocumentFormat
+	Version int    `json:"version"` // JobDocumentVersion
+	Snapshot
 }
 
 // WriteJobJSON writes s as one JobDocument: each record list in tag order
@@ -1301,7 +1294,7 @@ func WriteJobJSON(w io.Writer, s *Snapshot) error {
 	if s == nil {
 		return Errorf(Invalid, "snapshot", "no job snapshot given")
 	}
-	doc := JobDocument{Format: JobDocumentFormat, Version: JobDocumentVersion, Job: s.Job,
+	doc := JobDocument{Format: JobDocumentFormat, Version: JobDocumentVersion, Snapshot: Snapshot{Job: s.Job,
 		Instruments: sortedByTag(s.Instruments, func(r *Instrument) (string, string) { return r.Tag, r.ID }),
 		Systems:     sortedByTag(s.Systems, func(r *System) (string, string) { return r.Tag, r.ID }),
 		Outlets:     sortedByTag(s.Outlets, func(r *Outlet) (string, string) { return r.Tag, r.ID }),
@@ -1310,7 +1303,7 @@ func WriteJobJSON(w io.Writer, s *Snapshot) error {
 			func(r *CapacityTest) (string, string) { return r.Tag, r.ID }),
 		WaterTests: sortedByTag(s.WaterTests, func(r *WaterTest) (string, string) { return r.Tag, r.ID }),
 		Readings:   append([]Reading{}, s.Readings...),
-	}
+	}}
 	sort.SliceStable(doc.Readings, func(i, j int) bool { return doc.Readings[i].Seq < doc.Readings[j].Seq })
 	enc := json.NewEncoder(w)
 	enc.SetEscapeHTML(false)

@@ -794,8 +794,8 @@ func TestJobJSONErrors(t *testing.T) {
 				setJob(&d.Readings[i].JobID)
 			}
 		}), f.db, Conflict, "outlets[0].id"}, // the first record looked at: deletions go dependents first
-		{"ErrUnits", enc(JobDocument{Format: JobDocumentFormat, Version: 1, Job: Job{ID: doc.Job.ID, Name: "x", Units: "si",
-			UpdatedAt: testNow.Add(time.Hour)}}), f.db, Conflict, "job.units"},
+		{"ErrUnits", enc(JobDocument{Format: JobDocumentFormat, Version: 1, Snapshot: Snapshot{Job: Job{ID: doc.Job.ID, Name: "x", Units: "si",
+			UpdatedAt: testNow.Add(time.Hour)}}}), f.db, Conflict, "job.units"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {

@@ -90,12 +90,7 @@ func (s *Server) handleJobImport(w http.ResponseWriter, r *http.Request) {
 // handleResultsCSV answers the job's results as one CSV table for a
 // spreadsheet.
 func (s *Server) handleResultsCSV(w http.ResponseWriter, r *http.Request) {
-	snap, err := s.DB.Snapshot(r.Context(), jobID(r))
-	if err != nil {
-		s.writeError(w, r, err)
-		return
-	}
-	res, err := schema.ComputeResults(snap, s.now())
+	snap, res, err := s.jobResults(r)
 	if err != nil {
 		s.writeError(w, r, err)
 		return

@@ -50,13 +50,18 @@ type jobView struct {
 	Results  *schema.Results  `json:"results"`
 }
 
-func (s *Server) handleJobGet(w http.ResponseWriter, r *http.Request) {
+// jobResults loads the request's job and computes its results, as of now.
+func (s *Server) jobResults(r *http.Request) (*schema.Snapshot, *schema.Results, error) {
 	snap, err := s.DB.Snapshot(r.Context(), jobID(r))
 	if err != nil {
-		s.writeError(w, r, err)
-		return
+		return nil, nil, err
 	}
 	res, err := schema.ComputeResults(snap, s.now())
+	return snap, res, err
+}
+
+func (s *Server) handleJobGet(w http.ResponseWriter, r *http.Request) {
+	snap, res, err := s.jobResults(r)
 	if err != nil {
 		s.writeError(w, r, err)
 		return
