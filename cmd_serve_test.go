@@ -239,3 +239,35 @@ func TestCrashSafety(t *testing.T) {
 	}
 	t.Logf("%d readings acknowledged before SIGKILL, %d stored after restart", len(acked), len(seen))
 }
+
+// TestBackupCommand runs `fieldtab device add` and `fieldtab backup` in-process
+// and checks the copy holds the device, is private and passes integrity_check.
+func TestBackupCommand(t *testing.T) {
+	dir := t.TempDir()
+	dbPath, out := filepath.Join(dir, "store.db"), filepath.Join(dir, "copy.db")
+	if stdout, stderr, code := runMain(t, "", "device", "add", "--db", dbPath, "--name", "script", "--role", "lead"); code != 0 || len(strings.TrimSpace(stdout)) < 40 {
+		t.Fatalf("device add: exit %d, stdout %q, stderr %q", code, stdout, stderr)
+	}
+	if _, stderr, code := runMain(t, "", "backup", "--db", dbPath, "--out", out); code != 0 {
+		t.Fatalf("backup: exit %d: %s", code, stderr)
+	}
+	if fi, err := os.Stat(out); err != nil || fi.Mode().Perm() != 0o600 {
+		t.Fatalf("backup file: %v, mode %v; want 0600", err, fi.Mode().Perm())
+	}
+	db, err := sql.Open("sqlite3", "file:"+out+"?mode=ro")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	var ok string
+	var n int
+	if err := db.QueryRow("PRAGMA integrity_check").Scan(&ok); err != nil || ok != "ok" {
+		t.Errorf("integrity_check of the copy: %q %v", ok, err)
+	}
+	if err := db.QueryRow("SELECT COUNT(*) FROM devices").Scan(&n); err != nil || n != 1 {
+		t.Errorf("devices in the copy: %d %v, want 1", n, err)
+	}
+	if _, _, code := runMain(t, "", "backup", "--db", dbPath, "--out", out); code == 0 {
+		t.Error("a second backup over an existing file succeeded; it must refuse")
+	}
+}
