@@ -1814,18 +1814,8 @@ func (m *merger) reading(r *Reading, lookup, insert *sql.Stmt) error {
 			return err
 		}
 	}
-	if r.Supersedes != "" {
-		var kind, subject string
-		err := m.tx.QueryRow("SELECT subject_kind, subject_id FROM readings WHERE id = ? AND job_id = ?", r.Supersedes, r.JobID).
-			Scan(&kind, &subject)
-		switch {
-		case errors.Is(err, sql.ErrNoRows):
-			return Errorf(Invalid, "supersedes", "no reading %s in this job or the document", r.Supersedes)
-		case err != nil:
-			return err
-		case kind != r.SubjectKind || subject != r.SubjectID:
-			return Errorf(Invalid, "supersedes", "reading %s is of another subject (%s %s)", r.Supersedes, kind, subject)
-		}
+	if err := checkSupersedes(context.Background(), m.tx, r.JobID, r); err != nil {
+		return err
 	}
 	if r.DeviceID != "" {
 		if err := m.device(r.DeviceID); err != nil {

@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"strconv"
 	"strings"
 	"time"
 
@@ -36,7 +37,7 @@ var earliestTakenAt = time.Date(2000, 1, 1, 0, 0, 0, 0, time.UTC)
 
 // Validate checks what can be checked without the store, in field order, and
 // returns the first problem as an *Error with Code Invalid and the JSON field:
-//   - "id", "job_id", "subject_id": canonical lower-case UUIDs;
+//   - "id", "job_id", "subject_id": canonical UUIDs (AddReadings folds them to lower case);
 //   - "subject_kind", "quantity", "unit": one of SubjectKinds, a quantity read
 //     on that subject (see Quantities) and one of its units;
 //   - "point": 0 unless the quantity has points: 1 or more for a traverse point
@@ -205,7 +206,7 @@ func (db *DB) AddReadings(ctx context.Context, a Actor, jobID string, rs []Readi
 		b := &readingBatch{ctx: ctx, tx: tx, jobID: jobID, units: u, now: at, stamp: stamp,
 			subjects: map[string]*subjectInfo{}, known: map[string]error{}}
 		// Prepared once per batch: most readings run both.
-		if b.lookup, err = tx.PrepareContext(ctx, "SELECT job_id, seq FROM readings WHERE id = ?"); err != nil {
+		if b.lookup, err = tx.PrepareContext(ctx, "SELECT job_id, seq, subject_kind, subject_id, quantity, point, value, unit, stage, void FROM readings WHERE id = ?"); err != nil {
 			return err
 		}
 		defer b.lookup.Close()
@@ -269,12 +270,22 @@ type subjectInfo struct {
 // add handles one reading. A rejection is a result; only internal errors are
 // returned.
 func (b *readingBatch) add(a Actor, r *Reading) (ReadingResult, error) {
-	res := ReadingResult{ID: r.ID}
+	// Phones make UUIDs in either case (iOS in upper); the store keeps one form.
+	res := ReadingResult{ID: r.ID} // answered as the client sent it, so it can match
+	for _, id := range []*string{&r.ID, &r.JobID, &r.SubjectID, &r.InstrumentID, &r.Supersedes} {
+		*id = strings.ToLower(*id)
+	}
 	if validUUID(r.ID) {
 		var job string
 		var seq int64
-		err := b.lookup.QueryRowContext(b.ctx, r.ID).Scan(&job, &seq)
+		var stored Reading
+		err := b.lookup.QueryRowContext(b.ctx, r.ID).Scan(&job, &seq, &stored.SubjectKind, &stored.SubjectID,
+			&stored.Quantity, &stored.Point, &stored.Value, &stored.Unit, &stored.Stage, &stored.Void)
 		switch {
+		case err == nil && job == b.jobID && !sameMeasurement(stored, *r):
+			// Answering "duplicate" would let the client drop a value never stored.
+			return rejected(res, Errorf(Invalid, "id", "is already the id of a different reading (%s %s %s); make a new id",
+				stored.Quantity, formatValue(stored.Value), stored.Unit)), nil
 		case err == nil && job == b.jobID:
 			res.Status, res.Seq = ReadingDuplicate, seq
 			return res, nil
@@ -322,6 +333,23 @@ func (b *readingBatch) add(a Actor, r *Reading) (ReadingResult, error) {
 	return res, nil
 }
 
+// sameMeasurement reports whether a retried reading says what the stored one
+// says; provenance and times may differ between a retry and the original.
+func sameMeasurement(stored, r Reading) bool {
+	sameValue := stored.Value == nil && r.Value == nil ||
+		stored.Value != nil && r.Value != nil && *stored.Value == *r.Value
+	return sameValue && stored.SubjectKind == r.SubjectKind && stored.SubjectID == r.SubjectID &&
+		stored.Quantity == r.Quantity && stored.Point == r.Point && stored.Unit == r.Unit &&
+		stored.Stage == r.Stage && stored.Void == r.Void
+}
+
+func formatValue(v *float64) string {
+	if v == nil {
+		return "void"
+	}
+	return strconv.FormatFloat(*v, 'g', -1, 64)
+}
+
 func rejected(res ReadingResult, err error) ReadingResult {
 	res.Status, res.Field, res.Reason = ReadingRejected, ErrorField(err), ErrorMessage(err)
 	return res
@@ -356,20 +384,31 @@ func (b *readingBatch) check(r *Reading) error {
 			return err
 		}
 	}
+	return checkSupersedes(b.ctx, b.tx, b.jobID, r)
+}
+
+// checkSupersedes requires the reading r corrects or voids to be in the job and
+// to be the same measurement: subject, quantity, point and stage. A correction
+// of anything else would silently remove an unrelated reading from the results.
+func checkSupersedes(ctx context.Context, tx *sql.Tx, jobID string, r *Reading) error {
 	if r.Supersedes == "" {
 		return nil
 	}
-	var job, kind, subject string
-	err = b.tx.QueryRowContext(b.ctx, "SELECT job_id, subject_kind, subject_id FROM readings WHERE id = ?", r.Supersedes).
-		Scan(&job, &kind, &subject)
+	var job, kind, subject, quantity, stage string
+	var point int
+	err := tx.QueryRowContext(ctx, "SELECT job_id, subject_kind, subject_id, quantity, point, stage FROM readings WHERE id = ?",
+		r.Supersedes).Scan(&job, &kind, &subject, &quantity, &point, &stage)
 	switch {
-	case errors.Is(err, sql.ErrNoRows) || err == nil && job != b.jobID:
+	case errors.Is(err, sql.ErrNoRows) || err == nil && job != jobID:
 		return Errorf(Invalid, "supersedes", "no reading %s in this job", r.Supersedes)
 	case err != nil:
 		return fmt.Errorf("look up reading %s: %w", r.Supersedes, err)
 	case kind != r.SubjectKind || subject != r.SubjectID:
 		return Errorf(Invalid, "supersedes", "reading %s is of another subject (%s %s); a correction or void must be of the same one",
 			r.Supersedes, kind, subject)
+	case quantity != r.Quantity || point != r.Point || stage != r.Stage:
+		return Errorf(Invalid, "supersedes", "reading %s is %s at point %d, %s; a correction or void must be of the same quantity, point and stage",
+			r.Supersedes, quantity, point, stage)
 	}
 	return nil
 }

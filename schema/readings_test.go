@@ -289,7 +289,6 @@ func TestReadingsAddErrors(t *testing.T) {
 		{"ErrValueRange", func(r *Reading) { r.Value = ptr(90000.0) }, "value", "outside the accepted range"},
 		{"ErrValueMissing", func(r *Reading) { r.Value = nil }, "value", "required"},
 		{"ErrBadID", func(r *Reading) { r.ID = "S-101 reading" }, "id", "UUID"},
-		{"ErrUpperCaseID", func(r *Reading) { r.ID = strings.ToUpper(NewID()) }, "id", "UUID"},
 		{"ErrIDOfOtherJob", func(r *Reading) { r.ID = foreign.ID }, "id", "another job"},
 		{"ErrJobIDMismatch", func(r *Reading) { r.JobID = f.other }, "job_id", "sent to job"},
 		{"ErrSubjectUnknown", func(r *Reading) { r.SubjectID = NewID() }, "subject_id", "no outlet"},
@@ -476,6 +475,84 @@ func TestReadingsCurrent(t *testing.T) {
 			}
 			if got := strings.Join(ids, " "); got != c.want {
 				t.Errorf("got %q; want %q", got, c.want)
+			}
+		})
+	}
+}
+
+// An upper-case UUID (as iOS makes them) is stored in lower case, answered as
+// sent, and a retry in either case is a duplicate.
+func TestReadingsUpperCaseID(t *testing.T) {
+	ctx := context.Background()
+	db := MustOpenDB(t)
+	f := mustReadingsFixture(t, db)
+	r := f.reading(SubjectOutlet, "flow", UnitCFM, 400)
+	r.ID = strings.ToUpper(r.ID)
+	res, err := db.AddReadings(ctx, rdgLead, f.job, []Reading{r})
+	if err != nil || res[0].Status != ReadingStored || res[0].ID != r.ID {
+		t.Fatalf("upper-case id: %+v, %v; want stored, answered as sent", res, err)
+	}
+	r2 := r
+	r2.ID = strings.ToLower(r.ID)
+	if res, _ := db.AddReadings(ctx, rdgLead, f.job, []Reading{r2}); res[0].Status != ReadingDuplicate {
+		t.Errorf("lower-case retry: %+v; want duplicate", res[0])
+	}
+	got, _ := db.Readings(ctx, f.job)
+	if len(got) != 1 || got[0].ID != strings.ToLower(r.ID) {
+		t.Errorf("stored ids %+v; want one, in lower case", got)
+	}
+}
+
+// A retry must say what was stored: an id reused for another value is
+// rejected, never answered "duplicate" while the new value is dropped.
+func TestReadingsIDReusedForOtherValue(t *testing.T) {
+	ctx := context.Background()
+	db := MustOpenDB(t)
+	f := mustReadingsFixture(t, db)
+	r := f.reading(SubjectOutlet, "flow", UnitCFM, 400)
+	if _, err := db.AddReadings(ctx, rdgLead, f.job, []Reading{r}); err != nil {
+		t.Fatal(err)
+	}
+	other := r
+	v := 9999.0
+	other.Value = &v
+	res, err := db.AddReadings(ctx, rdgLead, f.job, []Reading{other})
+	if err != nil || res[0].Status != ReadingRejected || res[0].Field != "id" {
+		t.Errorf("reused id with another value: %+v, %v; want rejected on id", res, err)
+	}
+}
+
+// A correction must be of the same measurement: a correction of a traverse
+// point's VP by an air temperature would silently drop that point.
+func TestReadingsSupersedeSameMeasurement(t *testing.T) {
+	ctx := context.Background()
+	db := MustOpenDB(t)
+	f := mustReadingsFixture(t, db)
+	orig := f.reading(SubjectOutlet, "flow", UnitCFM, 400)
+	if _, err := db.AddReadings(ctx, rdgLead, f.job, []Reading{orig}); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name string
+		edit func(r *Reading)
+		ok   bool
+	}{
+		{"OKSameMeasurement", func(r *Reading) {}, true},
+		{"ErrOtherQuantity", func(r *Reading) { r.Quantity, r.Unit = "velocity", UnitFPM }, false},
+		{"ErrOtherStage", func(r *Reading) {
+			r.Stage = map[string]string{StageFinal: StageAsFound, StageAsFound: StageFinal}[orig.Stage]
+		}, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c := f.reading(SubjectOutlet, "flow", UnitCFM, 410)
+			c.Supersedes = orig.ID
+			tc.edit(&c)
+			res, err := db.AddReadings(ctx, rdgLead, f.job, []Reading{c})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := res[0].Status == ReadingStored; got != tc.ok || !tc.ok && res[0].Field != "supersedes" {
+				t.Errorf("%+v; want stored = %v (else rejected on supersedes)", res[0], tc.ok)
 			}
 		})
 	}
