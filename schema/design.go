@@ -350,14 +350,26 @@ type recordKind struct {
 }
 
 // dependent is a table whose rows refer to another record through column (an
-// SQL expression on the dependent's row).
+// SQL expression on the dependent's row). Readings have no deleted flag: every
+// one of them counts, for ever.
 type dependent struct {
 	table, entity, column string
 }
 
+func (d dependent) live() string {
+	if d.table == "readings" {
+		return ""
+	}
+	return " AND deleted = 0"
+}
+
 var (
-	instrumentKind = recordKind{table: "instruments", entity: "instrument"}
-	systemKind     = recordKind{table: "systems", entity: "system", dependents: []dependent{
+	// An instrument that took readings stays: its accuracy and calibration are
+	// part of those readings' results and of the report's instrument list.
+	instrumentKind = recordKind{table: "instruments", entity: "instrument", dependents: []dependent{
+		{"readings", "reading", "instrument_id"},
+	}}
+	systemKind = recordKind{table: "systems", entity: "system", dependents: []dependent{
 		{"outlets", "outlet", "system_id"},
 		{"traverses", "traverse", "system_id"},
 		{"capacity_tests", "capacity test", "system_id"},
@@ -558,7 +570,7 @@ func Delete[T designRecord](ctx context.Context, db *DB, a Actor, jobID, id stri
 		var still []string
 		for _, d := range k.dependents {
 			var n int
-			err := tx.QueryRow("SELECT COUNT(*) FROM "+d.table+" WHERE job_id = ? AND deleted = 0 AND "+d.column+" = ?",
+			err := tx.QueryRow("SELECT COUNT(*) FROM "+d.table+" WHERE job_id = ?"+d.live()+" AND "+d.column+" = ?",
 				jobID, id).Scan(&n)
 			if err != nil {
 				return err

@@ -795,6 +795,9 @@ func updateRecordTx(tx *sql.Tx, at time.Time, now string, a Actor, rec designRec
 		*rec.meta() = m
 		return false, nil
 	}
+	if err := checkLayoutChange(tx, k, *keys.jobID, *keys.id, changed); err != nil {
+		return false, err
+	}
 	if m.Seq, err = updateRecordRow(tx, k, keys, data, now, false); err != nil {
 		return false, err
 	}
@@ -804,6 +807,35 @@ func updateRecordTx(tx *sql.Tx, at time.Time, now string, a Actor, rec designRec
 	m.UpdatedAt = at
 	*rec.meta() = m
 	return true, nil
+}
+
+// traverseLayoutKeys are the traverse fields that place its points.
+var traverseLayoutKeys = []string{"shape", "method", "width", "height", "diameter", "points_w", "points_h",
+	"points_per_diameter", "diameters"}
+
+// checkLayoutChange refuses to move a traverse's points once point readings
+// exist: the readings are numbered by point, and a new layout would silently
+// put them at other positions.
+func checkLayoutChange(tx *sql.Tx, k *recordKind, jobID, id string, changed []string) error {
+	if k != &traverseKind {
+		return nil
+	}
+	for _, key := range changed {
+		if !slices.Contains(traverseLayoutKeys, key) {
+			continue
+		}
+		var n int
+		err := tx.QueryRow(`SELECT COUNT(*) FROM readings WHERE job_id = ? AND subject_kind = ? AND subject_id = ?
+			AND quantity IN ('vp', 'velocity')`, jobID, SubjectTraverse, id).Scan(&n)
+		if err != nil {
+			return err
+		}
+		if n > 0 {
+			return Errorf(Conflict, key, "this traverse has %s at its present points; make a new traverse for another layout", plural(n, "point reading"))
+		}
+		return nil
+	}
+	return nil
 }
 
 // recordChanged reports whether rec differs from its stored live version.

@@ -765,3 +765,35 @@ func BenchmarkAddReadings20(b *testing.B) {
 	}
 	b.ReportMetric(float64(20*b.N)/time.Since(start).Seconds(), "readings/s")
 }
+
+// Records that readings depend on keep their meaning: an instrument that took
+// readings cannot be deleted, and a traverse with point readings cannot have
+// its points moved (its other fields, such as location, still change).
+func TestReadingsProtectTheirRecords(t *testing.T) {
+	ctx := context.Background()
+	db := MustOpenDB(t)
+	f := mustReadingsFixture(t, db)
+	r := f.reading(SubjectOutlet, "flow", UnitCFM, 400)
+	r.InstrumentID = f.instrument
+	vp := f.reading(SubjectTraverse, "vp", UnitInWG, 0.12)
+	vp.Point = 1
+	if res, err := db.AddReadings(ctx, rdgLead, f.job, []Reading{r, vp}); err != nil || res[0].Status != ReadingStored || res[1].Status != ReadingStored {
+		t.Fatalf("fixture readings: %+v, %v", res, err)
+	}
+	err := Delete[*Instrument](ctx, db, rdgLead, f.job, f.instrument)
+	if ErrorCode(err) != Conflict {
+		t.Errorf("deleting an instrument that took a reading: %v; want Conflict", err)
+	}
+	tr, err := Get[*Traverse](ctx, db, f.job, f.traverse)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr.PointsW = 6
+	if err := Update(ctx, db, rdgLead, tr); ErrorCode(err) != Conflict || ErrorField(err) != "points_w" {
+		t.Errorf("moving a read traverse's points: %v; want Conflict on points_w", err)
+	}
+	tr.PointsW, tr.Location = 5, "Roof, 3 ft downstream of the elbow"
+	if err := Update(ctx, db, rdgLead, tr); err != nil {
+		t.Errorf("changing a read traverse's location: %v; want it accepted", err)
+	}
+}
