@@ -31,9 +31,10 @@ type readingsResponse struct {
 	Seq     int64                  `json:"seq"`
 }
 
-// handleReadingsCreate stores a batch in one transaction. A reading the store
-// rejects is reported in its result and keeps none of the others from being
-// stored; only a body that is not a batch at all is refused as a whole.
+// handleReadingsCreate stores a batch in one transaction. A reading that does
+// not decode, or that the store rejects, is reported in its result and keeps
+// none of the others from being stored; only a body that is not a batch at all
+// is refused as a whole.
 func (s *Server) handleReadingsCreate(w http.ResponseWriter, r *http.Request) {
 	var req readingsRequest
 	if err := decodeJSON(w, r, &req); err != nil {
@@ -48,17 +49,28 @@ func (s *Server) handleReadingsCreate(w http.ResponseWriter, r *http.Request) {
 		s.writeError(w, r, schema.Errorf(schema.Invalid, "readings", "a batch holds at most %d readings; this one has %d", schema.MaxReadingsBatch, n))
 		return
 	}
-	rs := make([]schema.Reading, len(req.Readings))
+	// An item that does not decode is rejected on its own, like one the store
+	// refuses: a single bad entry must not block a device's whole outbox.
+	results := make([]schema.ReadingResult, len(req.Readings))
+	var (
+		rs  []schema.Reading
+		idx []int
+	)
 	for i, raw := range req.Readings {
-		if err := decodeItem(raw, &rs[i]); err != nil {
-			s.writeError(w, r, itemError(err, "readings", i))
-			return
+		var rd schema.Reading
+		if err := decodeItem(raw, &rd); err != nil {
+			results[i] = rejectUndecoded(raw, err)
+			continue
 		}
+		rs, idx = append(rs, rd), append(idx, i)
 	}
-	results, err := s.DB.AddReadings(r.Context(), actorOf(r), jobID(r), rs)
+	stored, err := s.DB.AddReadings(r.Context(), actorOf(r), jobID(r), rs)
 	if err != nil {
 		s.writeError(w, r, err)
 		return
+	}
+	for j, res := range stored {
+		results[idx[j]] = res
 	}
 	resp := readingsResponse{Results: results}
 	for _, res := range results {
@@ -87,6 +99,21 @@ func decodeItem(raw json.RawMessage, v any) error {
 		return decodeError(err)
 	}
 	return nil
+}
+
+// rejectUndecoded is the result for an item that is not a reading: its id if
+// one can be read, the field at fault and why.
+func rejectUndecoded(raw json.RawMessage, err error) schema.ReadingResult {
+	var id struct {
+		ID string `json:"id"`
+	}
+	_ = json.Unmarshal(raw, &id) // best effort: the item is malformed anyway
+	res := schema.ReadingResult{ID: id.ID, Status: schema.ReadingRejected, Field: "(item)", Reason: err.Error()}
+	var he *httpError
+	if errors.As(err, &he) && he.field != "" {
+		res.Field = he.field
+	}
+	return res
 }
 
 // itemError names item i of list in a decoding error: field "readings[3].value".

@@ -126,9 +126,6 @@ func TestReadings(t *testing.T) {
 		{"ErrNullReadings", `{"readings":null}`, 400, "readings"},
 		{"ErrNotAList", `{"readings":{"id":"x"}}`, 400, "readings"},
 		{"ErrUnknownField", `{"readings":[],"extra":1}`, 400, "extra"},
-		{"ErrItemWrongType", `{"readings":[{"id":"x"},{"value":"lots"}]}`, 400, "readings[1].value"},
-		{"ErrItemUnknownField", `{"readings":[{"id":"x","colour":"red"}]}`, 400, "readings[0].colour"},
-		{"ErrItemBadTime", `{"readings":[{"taken_at":"yesterday"}]}`, 400, ""},
 		{"ErrMalformed", `{"readings":[`, 400, ""},
 		{"ErrTooLarge", `{"readings":[{"note":"` + strings.Repeat("x", maxBody) + `"}]}`, 413, ""},
 	}
@@ -137,14 +134,34 @@ func TestReadings(t *testing.T) {
 			want(t, ts.do(t, "POST", path, ts.tech, tc.body), tc.status, tc.field)
 		})
 	}
+	// Items that are not readings are rejected one by one, with the field at
+	// fault; the good item beside them is stored.
+	t.Run("OKUndecodableItemsRejectedAlone", func(t *testing.T) {
+		good := flowReading(f.outlet, 401)
+		goodJSON, _ := json.Marshal(good)
+		body := `{"readings":[{"id":"bad-1","value":"lots"},{"id":"bad-2","colour":"red"},{"taken_at":"yesterday"},` + string(goodJSON) + `]}`
+		var resp struct{ Results []schema.ReadingResult }
+		r := ts.do(t, "POST", path, ts.tech, body)
+		want(t, r, 200, "")
+		r.decode(t, &resp)
+		wantFields := []string{"value", "colour", "(item)", ""} // a bad time names no field: encoding/json does not say which
+		for i, res := range resp.Results {
+			if i < 3 && (res.Status != schema.ReadingRejected || res.Field != wantFields[i] || res.Reason == "") {
+				t.Errorf("item %d: %+v; want rejected on %q with a reason", i, res, wantFields[i])
+			}
+		}
+		if len(resp.Results) != 4 || resp.Results[0].ID != "bad-1" || resp.Results[3].Status != schema.ReadingStored {
+			t.Errorf("results %+v; want four, the first answered by its id and the last stored", resp.Results)
+		}
+	})
 	t.Run("ErrUnknownJob", func(t *testing.T) {
 		other := schema.NewID()
 		want(t, ts.do(t, "POST", "/jobs/"+other+"/readings", ts.tech, map[string]any{"readings": batch[:1]}), 404, "job_id")
 		want(t, ts.do(t, "GET", "/jobs/"+other+"/readings", ts.tech, nil), 404, "job_id")
 	})
 	t.Run("OKNothingStoredByErrors", func(t *testing.T) {
-		if n := len(ts.readings(t, f.job)); n != 23 {
-			t.Fatalf("%d readings, want 23", n)
+		if n := len(ts.readings(t, f.job)); n != 24 {
+			t.Fatalf("%d readings, want 24 (23 and the good item beside bad ones)", n)
 		}
 	})
 }
