@@ -734,6 +734,12 @@ func (db *DB) snapshot(ctx context.Context, jobID string, since int64) (*Snapsho
 		if s.Job, err = loadJob(tx, jobID, nil); err != nil {
 			return err
 		}
+		if since > s.Job.Seq {
+			// A device ahead of the store means the store went back (restored
+			// from a backup) or is another server: an empty answer would hide it.
+			return Errorf(Conflict, "since", "is %d but this job is at change %d here: the store was restored or this is another server; "+
+				"fetch the whole job (since=0) and send every reading you hold again", since, s.Job.Seq)
+		}
 		if s.Instruments, err = listRecords[Instrument](ctx, tx, where, args...); err != nil {
 			return err
 		}

@@ -988,6 +988,18 @@ func TestChangesSince(t *testing.T) {
 		_, err := db.ChangesSince(ctx, jobID, -1)
 		assertErr(t, err, Invalid, "since")
 	})
+	t.Run("ErrAheadOfTheStore", func(t *testing.T) {
+		// A device that has seen more than the store holds: a restored backup.
+		j, err := db.Job(ctx, jobID)
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, err = db.ChangesSince(ctx, jobID, j.Seq+1)
+		assertErr(t, err, Conflict, "since")
+		if _, err := db.ChangesSince(ctx, jobID, j.Seq); err != nil {
+			t.Errorf("since = the job's seq: %v; want an empty answer", err)
+		}
+	})
 	t.Run("ErrNotFound", func(t *testing.T) {
 		_, err := db.ChangesSince(ctx, NewID(), 0)
 		assertErr(t, err, NotFound, "job_id")

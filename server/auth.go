@@ -77,14 +77,16 @@ func actorOf(r *http.Request) schema.Actor {
 
 // Join codes: short, typed or scanned once per device, valid for joinCodeTTL.
 // A technician code may be used by the whole crew until it expires; a lead code
-// is used once. Guesses are limited per client address and overall.
+// is used once. Wrong guesses are limited per client (per address, per /64 for
+// IPv6). There is no limit across clients: one would let any device on the
+// network lock the whole crew out, and 31^8 codes behind 5 guesses a minute per
+// client leave no guessing chance worth the name.
 const (
 	joinCodeTTL      = 15 * time.Minute
 	joinCodeLen      = 8
 	joinCodeAlphabet = "23456789ABCDEFGHJKMNPQRSTUVWXYZ" // no 0/O, 1/I/L
 	guessWindow      = time.Minute
 	guessesPerClient = 5
-	guessesOverall   = 30
 )
 
 type joinCode struct {
@@ -137,8 +139,8 @@ func (p *pairing) newCode(role string) (string, time.Time, error) {
 }
 
 // redeem checks a typed code and returns it (normalised) with its role and
-// expiry. Failed guesses are counted against the client and overall; past the
-// limit the answer is 429.
+// expiry. Failed guesses are counted against the client; past the limit the
+// answer is 429.
 func (p *pairing) redeem(typed, client string) (string, joinCode, error) {
 	code := strings.ToUpper(strings.NewReplacer("-", "", " ", "").Replace(typed))
 	p.mu.Lock()
@@ -151,7 +153,6 @@ func (p *pairing) redeem(typed, client string) (string, joinCode, error) {
 	jc, ok := p.codes[code]
 	if !ok || now.After(jc.expires) {
 		p.failures[client] = append(p.failures[client], now)
-		p.failures[""] = append(p.failures[""], now)
 		return "", joinCode{}, schema.Errorf(schema.Unauthorized, "code", "this join code is wrong or has expired; ask the lead for the current code")
 	}
 	if jc.role == schema.RoleLead {
@@ -186,7 +187,17 @@ func (p *pairing) tooMany(client string, now time.Time) bool {
 		}
 		return len(kept)
 	}
-	return recent(client) >= guessesPerClient || recent("") >= guessesOverall
+	return recent(client) >= guessesPerClient
+}
+
+// guessClient is the key wrong guesses are counted under: the address, or its
+// /64 for IPv6, where one device can use many addresses of its network.
+func guessClient(host string) string {
+	ip := net.ParseIP(host)
+	if ip == nil || ip.To4() != nil {
+		return host
+	}
+	return ip.Mask(net.CIDRMask(64, 128)).String() + "/64"
 }
 
 func (s *Server) registerPairingRoutes(r *mux.Router) {
@@ -215,7 +226,7 @@ func (s *Server) handlePair(w http.ResponseWriter, r *http.Request) {
 	if err != nil {
 		host = r.RemoteAddr
 	}
-	code, jc, err := s.pairing.redeem(req.Code, host)
+	code, jc, err := s.pairing.redeem(req.Code, guessClient(host))
 	if err != nil {
 		s.writeError(w, r, err)
 		return

@@ -149,11 +149,24 @@ func TestPairing(t *testing.T) {
 		for i := 0; i < guessesPerClient; i++ {
 			want(t, ts.do(t, "POST", "/pair", "", map[string]string{"code": "AAAA-AAAA", "name": "Guess"}), 401, "code")
 		}
-		want(t, ts.do(t, "POST", "/pair", "", map[string]string{"code": "AAAA-AAAA", "name": "Guess"}), 429, "code")
+		limited := ts.do(t, "POST", "/pair", "", map[string]string{"code": "AAAA-AAAA", "name": "Guess"})
+		want(t, limited, 429, "code")
+		if limited.header.Get("Retry-After") != "60" {
+			t.Errorf("Retry-After = %q, want 60", limited.header.Get("Retry-After"))
+		}
 		// The right code waits out the window too.
 		want(t, ts.do(t, "POST", "/pair", "", map[string]string{"code": code, "name": "Phone"}), 429, "code")
 		now = now.Add(guessWindow + time.Second)
 		want(t, ts.do(t, "POST", "/pair", "", map[string]string{"code": code, "name": "Phone"}), 201, "")
+	})
+	t.Run("OKGuessClient", func(t *testing.T) {
+		for host, want := range map[string]string{
+			"192.0.2.7": "192.0.2.7", "2001:db8:1:2:3:4:5:6": "2001:db8:1:2::/64", "2001:db8:1:2:ffff::1": "2001:db8:1:2::/64",
+		} {
+			if got := guessClient(host); got != want {
+				t.Errorf("guessClient(%s) = %s, want %s", host, got, want)
+			}
+		}
 	})
 	t.Run("ErrBody", func(t *testing.T) {
 		ts := MustOpenServer(t)

@@ -7,6 +7,7 @@ import (
 	"io"
 	"net/http"
 	"reflect"
+	"strconv"
 	"strings"
 	"time"
 
@@ -62,8 +63,11 @@ func (s *Server) writeError(w http.ResponseWriter, r *http.Request, err error) {
 	if body["field"] == "" {
 		delete(body, "field")
 	}
-	if status == http.StatusUnauthorized {
+	switch status {
+	case http.StatusUnauthorized:
 		w.Header().Set("WWW-Authenticate", `Bearer realm="fieldtab"`)
+	case http.StatusTooManyRequests:
+		w.Header().Set("Retry-After", strconv.Itoa(int(guessWindow.Seconds())))
 	}
 	writeJSON(w, status, body)
 }
