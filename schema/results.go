@@ -453,6 +453,7 @@ type resultsCalc struct {
 	sysTag    map[string]string
 	sysByID   map[string]*System
 	supply    map[string]*resFlowSum // by system ID: supply outlets' flow
+	exhaust   map[string]*resFlowSum // by system ID: exhaust outlets' flow, for exhaust fans
 	travFlow  map[string]*resTraverse
 	sysTrav   map[string]*resTraverse // first computed traverse by system ID
 	capAir    map[string]float64      // capacity test ID → air-side total in its mode's sense, W
@@ -504,6 +505,7 @@ func newResultsCalc(s *Snapshot, today time.Time) *resultsCalc {
 		sysTag:    make(map[string]string, len(s.Systems)),
 		sysByID:   make(map[string]*System, len(s.Systems)),
 		supply:    make(map[string]*resFlowSum, len(s.Systems)),
+		exhaust:   make(map[string]*resFlowSum, len(s.Systems)),
 		travFlow:  make(map[string]*resTraverse, len(s.Traverses)),
 		sysTrav:   make(map[string]*resTraverse),
 		capAir:    make(map[string]float64),
@@ -831,12 +833,12 @@ func (c *resultsCalc) outlet(o *Outlet) OutletResult {
 		res.Status = st.Status
 		unc[i] = u
 	}
-	// The system's supply sum takes the final flow, else the as-found one.
-	if o.Kind == "supply" {
-		sum := c.supply[o.SystemID]
+	// The system's supply (or exhaust) sum takes the final flow, else the as-found one.
+	if sums := map[string]map[string]*resFlowSum{"supply": c.supply, "exhaust": c.exhaust}[o.Kind]; sums != nil {
+		sum := sums[o.SystemID]
 		if sum == nil {
 			sum = &resFlowSum{}
-			c.supply[o.SystemID] = sum
+			sums[o.SystemID] = sum
 		}
 		sum.total++
 		gov, u := res.Final, unc[1]
@@ -1722,17 +1724,24 @@ func (c *resultsCalc) system(sys *System) SystemResult {
 		}
 	}
 
-	// Measured airflow: the system's first computed traverse, else its supply outlets.
+	// Measured airflow: the system's first computed traverse, else its supply
+	// outlets, else (an exhaust fan) its exhaust outlets.
 	var flow measure.VolumeFlow
 	var acc measure.Accuracy
+	kind, sum := "supply", c.supply[sys.ID]
+	if sum == nil || sum.read == 0 {
+		if ex := c.exhaust[sys.ID]; ex != nil && ex.read > 0 {
+			kind, sum = "exhaust", ex
+		}
+	}
 	if tf := c.sysTrav[sys.ID]; tf != nil {
 		flow, acc.Pct = tf.flow, tf.accPct
 		res.AirflowSource, res.AirflowTraverseID = "traverse", tf.id
-	} else if sum := c.supply[sys.ID]; sum != nil && sum.read > 0 {
+	} else if sum != nil && sum.read > 0 {
 		flow, acc.Abs = measure.AirFlowIn(c.u, sum.flow), sum.unc
 		res.AirflowSource = "outlets"
 		if sum.read < sum.total {
-			res.Notes = append(res.Notes, fmt.Sprintf("airflow is the sum of %d of %d supply outlets", sum.read, sum.total))
+			res.Notes = append(res.Notes, fmt.Sprintf("airflow is the sum of %d of %d %s outlets", sum.read, sum.total, kind))
 		}
 	}
 	if flow > 0 {

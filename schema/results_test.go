@@ -900,3 +900,21 @@ func BenchmarkComputeResults1500Outlets(b *testing.B) {
 		}
 	}
 }
+
+// An exhaust fan has no supply outlets: its airflow is the sum of its exhaust
+// outlets (hood readings × factor 1, by hand: 410 + 395 = 805 cfm of 800).
+func TestResultsExhaustFanAirflow(t *testing.T) {
+	b := newResBuilder("ip")
+	fan := b.system("EF-1", SystemDesign{Airflow: 800})
+	for i, v := range []float64{410, 395} {
+		id := b.outlet(fan.ID, fmt.Sprintf("E-%d", i+1), 400, "hood", 1, 0)
+		b.s.Outlets[len(b.s.Outlets)-1].Kind = "exhaust"
+		b.read(SubjectOutlet, id, "flow", 0, v, UnitCFM, StageFinal, "")
+	}
+	r := b.compute(t)
+	s := r.Systems[0]
+	if s.Airflow == nil || s.AirflowSource != "outlets" {
+		t.Fatalf("exhaust fan airflow %v from %q; want the exhaust outlets' sum", s.Airflow, s.AirflowSource)
+	}
+	resClose(t, "exhaust fan airflow", *s.Airflow, 805, 1e-9)
+}

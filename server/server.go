@@ -26,7 +26,8 @@ type Server struct {
 	Addr   string // listen address, host:port; ":0" picks a free port
 	Logger *slog.Logger
 
-	// Now is the clock for join codes and results; tests set it.
+	// Now is the clock for join codes and results, in the site's local time
+	// zone: calibration is due on a calendar date there, not in UTC.
 	Now func() time.Time
 
 	ln      net.Listener
@@ -46,7 +47,7 @@ func New(db *schema.DB, addr string, logger *slog.Logger) *Server {
 	if logger == nil {
 		logger = slog.New(slog.DiscardHandler)
 	}
-	s := &Server{DB: db, Addr: addr, Logger: logger, Now: func() time.Time { return time.Now().UTC() }}
+	s := &Server{DB: db, Addr: addr, Logger: logger, Now: time.Now}
 	s.pairing = newPairing(s.now)
 	s.router = mux.NewRouter()
 	s.router.NotFoundHandler = http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
