@@ -44,24 +44,62 @@ func benchJob(tb testing.TB, db *schema.DB, n int) (job string, outlets []string
 	return j.ID, outlets
 }
 
+// ingestBench is a server with a job of 100 outlets and one device token per
+// client, for the ingest benchmarks.
+type ingestBench struct {
+	url     string
+	tokens  []string
+	outlets []string
+	cli     *http.Client
+}
+
+func newIngestBench(b *testing.B, clients int) *ingestBench {
+	b.Helper()
+	ts := MustOpenServer(b)
+	job, outlets := benchJob(b, ts.db, 100)
+	in := &ingestBench{url: ts.ts.URL + "/api/v1/jobs/" + job + "/readings", outlets: outlets}
+	for i := range clients {
+		_, tok, err := ts.db.CreateDevice(context.Background(), schema.Actor{Name: "bench"}, fmt.Sprintf("Phone %d", i), schema.RoleTechnician)
+		if err != nil {
+			b.Fatal(err)
+		}
+		in.tokens = append(in.tokens, tok)
+	}
+	tr := &http.Transport{MaxIdleConns: clients * 2, MaxIdleConnsPerHost: clients * 2}
+	b.Cleanup(tr.CloseIdleConnections)
+	in.cli = &http.Client{Transport: tr}
+	return in
+}
+
+// post sends one batch of n readings and returns how long the answer took.
+func (in *ingestBench) post(token string, n int, next *atomic.Int64) (time.Duration, error) {
+	rs := make([]schema.Reading, n)
+	for i := range rs {
+		rs[i] = flowReading(in.outlets[int(next.Add(1))%len(in.outlets)], 400)
+	}
+	body, _ := json.Marshal(map[string]any{"readings": rs})
+	req, _ := http.NewRequest(http.MethodPost, in.url, bytes.NewReader(body))
+	req.Header.Set("Authorization", "Bearer "+token)
+	req.Header.Set("Content-Type", "application/json")
+	start := time.Now()
+	resp, err := in.cli.Do(req)
+	if err != nil {
+		return 0, err
+	}
+	_, _ = io.Copy(io.Discard, resp.Body)
+	resp.Body.Close()
+	if resp.StatusCode != http.StatusOK {
+		return 0, fmt.Errorf("status %d", resp.StatusCode)
+	}
+	return time.Since(start), nil
+}
+
 // BenchmarkReadingsIngest posts batches of 20 readings from 20 concurrent
 // clients (each with its own device token and connection) through the real
 // handler stack to a store on disk. One op is one batch.
 func BenchmarkReadingsIngest(b *testing.B) {
 	const clients, batchSize = 20, 20
-	ts := MustOpenServer(b)
-	job, outlets := benchJob(b, ts.db, 100)
-	tokens := make([]string, clients)
-	for i := range tokens {
-		var err error
-		if _, tokens[i], err = ts.db.CreateDevice(context.Background(), schema.Actor{Name: "bench"}, fmt.Sprintf("Phone %d", i), schema.RoleTechnician); err != nil {
-			b.Fatal(err)
-		}
-	}
-	url := ts.ts.URL + "/api/v1/jobs/" + job + "/readings"
-	tr := &http.Transport{MaxIdleConns: clients * 2, MaxIdleConnsPerHost: clients * 2}
-	defer tr.CloseIdleConnections()
-	cli := &http.Client{Transport: tr}
+	in := newIngestBench(b, clients)
 
 	var (
 		mu        sync.Mutex
@@ -72,30 +110,15 @@ func BenchmarkReadingsIngest(b *testing.B) {
 	b.SetParallelism((clients + 1) / 2) // × GOMAXPROCS (2 here) goroutines
 	b.ResetTimer()
 	b.RunParallel(func(pb *testing.PB) {
-		token := tokens[int(next.Add(1)-1)%clients]
+		token := in.tokens[int(next.Add(1)-1)%clients]
 		var mine []time.Duration
-		v := 400.0
 		for pb.Next() {
-			rs := make([]schema.Reading, batchSize)
-			for i := range rs {
-				rs[i] = flowReading(outlets[int(next.Add(1))%len(outlets)], v)
-			}
-			body, _ := json.Marshal(map[string]any{"readings": rs})
-			req, _ := http.NewRequest(http.MethodPost, url, bytes.NewReader(body))
-			req.Header.Set("Authorization", "Bearer "+token)
-			req.Header.Set("Content-Type", "application/json")
-			start := time.Now()
-			resp, err := cli.Do(req)
+			d, err := in.post(token, batchSize, &next)
 			if err != nil {
 				failed.Add(1)
 				continue
 			}
-			_, _ = io.Copy(io.Discard, resp.Body)
-			resp.Body.Close()
-			mine = append(mine, time.Since(start))
-			if resp.StatusCode != http.StatusOK {
-				failed.Add(1)
-			}
+			mine = append(mine, d)
 		}
 		mu.Lock()
 		latencies = append(latencies, mine...)
@@ -119,19 +142,7 @@ func BenchmarkReadingsIngest(b *testing.B) {
 // back, measures the ceiling; its latency is queueing behind the one writer.)
 func BenchmarkReadingsIngestAtTarget(b *testing.B) {
 	const clients, batchSize, period = 20, 20, 80 * time.Millisecond
-	ts := MustOpenServer(b)
-	job, outlets := benchJob(b, ts.db, 100)
-	tokens := make([]string, clients)
-	for i := range tokens {
-		var err error
-		if _, tokens[i], err = ts.db.CreateDevice(context.Background(), schema.Actor{Name: "bench"}, fmt.Sprintf("Phone %d", i), schema.RoleTechnician); err != nil {
-			b.Fatal(err)
-		}
-	}
-	url := ts.ts.URL + "/api/v1/jobs/" + job + "/readings"
-	tr := &http.Transport{MaxIdleConns: clients * 2, MaxIdleConnsPerHost: clients * 2}
-	defer tr.CloseIdleConnections()
-	cli := &http.Client{Transport: tr}
+	in := newIngestBench(b, clients)
 	var (
 		mu        sync.Mutex
 		latencies []time.Duration
@@ -150,24 +161,10 @@ func BenchmarkReadingsIngestAtTarget(b *testing.B) {
 			defer tick.Stop()
 			var mine []time.Duration
 			for sent.Add(1) <= int64(b.N) {
-				rs := make([]schema.Reading, batchSize)
-				for i := range rs {
-					rs[i] = flowReading(outlets[int(next.Add(1))%len(outlets)], 400)
-				}
-				body, _ := json.Marshal(map[string]any{"readings": rs})
-				req, _ := http.NewRequest(http.MethodPost, url, bytes.NewReader(body))
-				req.Header.Set("Authorization", "Bearer "+tokens[c])
-				start := time.Now()
-				resp, err := cli.Do(req)
-				if err != nil {
+				if d, err := in.post(in.tokens[c], batchSize, &next); err != nil {
 					failed.Add(1)
 				} else {
-					_, _ = io.Copy(io.Discard, resp.Body)
-					resp.Body.Close()
-					if resp.StatusCode != http.StatusOK {
-						failed.Add(1)
-					}
-					mine = append(mine, time.Since(start))
+					mine = append(mine, d)
 				}
 				<-tick.C
 			}
