@@ -265,6 +265,7 @@ type subjectInfo struct {
 	err       error
 	points    int
 	pointsErr error
+	deleted   string // set when the subject was deleted: the note stored readings get
 }
 
 // add handles one reading. A rejection is a result; only internal errors are
@@ -330,6 +331,9 @@ func (b *readingBatch) add(a Actor, r *Reading) (ReadingResult, error) {
 	}
 	b.seq = seq
 	res.Status, res.Seq = ReadingStored, seq
+	if sub := b.subjects[r.SubjectKind+"/"+r.SubjectID]; sub != nil {
+		res.Reason = sub.deleted
+	}
 	return res, nil
 }
 
@@ -433,7 +437,12 @@ func (b *readingBatch) subject(kind, id string) (*subjectInfo, error) {
 	case err != nil:
 		return nil, fmt.Errorf("look up %s %s: %w", entity, id, err)
 	case deleted:
-		s.err = Errorf(Invalid, "subject_id", "%s %s was deleted", entity, id)
+		// A device that was offline may still send readings of a record the
+		// lead has since deleted: keep them, never lose a reading, and say so.
+		s.deleted = fmt.Sprintf("stored, but %s %s was deleted: the reading is kept for the record and counts in no result", entity, id)
+		if kind == SubjectTraverse {
+			s.points, s.pointsErr = traversePoints(data, b.units)
+		}
 	case kind == SubjectTraverse:
 		s.points, s.pointsErr = traversePoints(data, b.units)
 	}

@@ -292,7 +292,6 @@ func TestReadingsAddErrors(t *testing.T) {
 		{"ErrIDOfOtherJob", func(r *Reading) { r.ID = foreign.ID }, "id", "another job"},
 		{"ErrJobIDMismatch", func(r *Reading) { r.JobID = f.other }, "job_id", "sent to job"},
 		{"ErrSubjectUnknown", func(r *Reading) { r.SubjectID = NewID() }, "subject_id", "no outlet"},
-		{"ErrSubjectDeleted", func(r *Reading) { r.SubjectID = f.deleted }, "subject_id", "was deleted"},
 		{"ErrSubjectOfOtherKind", func(r *Reading) { r.SubjectID = f.traverse }, "subject_id", "no outlet"},
 		{"ErrSubjectInOtherJob", func(r *Reading) {
 			r.SubjectKind, r.Quantity, r.Unit, r.SubjectID = SubjectSystem, "fan_rpm", UnitRPM, otherSystem
@@ -477,6 +476,33 @@ func TestReadingsCurrent(t *testing.T) {
 				t.Errorf("got %q; want %q", got, c.want)
 			}
 		})
+	}
+}
+
+// A reading of a record deleted while the device was offline is kept, with a
+// note, and no result counts it.
+func TestReadingsOnDeletedSubjectKept(t *testing.T) {
+	ctx := context.Background()
+	db := MustOpenDB(t)
+	f := mustReadingsFixture(t, db)
+	r := f.reading(SubjectOutlet, "flow", UnitCFM, 300)
+	r.SubjectID = f.deleted
+	res, err := db.AddReadings(ctx, rdgLead, f.job, []Reading{r})
+	if err != nil || res[0].Status != ReadingStored || !strings.Contains(res[0].Reason, "was deleted") {
+		t.Fatalf("reading of a deleted outlet: %+v, %v; want stored with a note", res, err)
+	}
+	snap, err := db.Snapshot(ctx, f.job)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out, err := ComputeResults(snap, testNow)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, o := range out.Outlets {
+		if o.ID == f.deleted {
+			t.Errorf("the deleted outlet appears in the results: %+v", o)
+		}
 	}
 }
 

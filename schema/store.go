@@ -22,7 +22,8 @@ type Snapshot struct {
 	Readings      []Reading      `json:"readings"`
 }
 
-// ReadingResult is the fate of one reading in a batch.
+// ReadingResult is the fate of one reading in a batch. Reason says why one was
+// rejected, or notes something about one stored (its subject was deleted).
 type ReadingResult struct {
 	ID     string `json:"id"`
 	Status string `json:"status"` // "stored", "duplicate" or "rejected"
