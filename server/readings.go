@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"encoding/json"
 	"errors"
-	"fmt"
 	"net/http"
 
 	"github.com/gorilla/mux"
@@ -114,18 +113,4 @@ func rejectUndecoded(raw json.RawMessage, err error) schema.ReadingResult {
 		res.Field = he.field
 	}
 	return res
-}
-
-// itemError names item i of list in a decoding error: field "readings[3].value".
-func itemError(err error, list string, i int) error {
-	field := fmt.Sprintf("%s[%d]", list, i)
-	var he *httpError
-	if !errors.As(err, &he) {
-		return err
-	}
-	out := &httpError{status: he.status, field: field, msg: fmt.Sprintf("item %d of %s: %s", i, list, he.msg)}
-	if he.field != "" {
-		out.field += "." + he.field
-	}
-	return out
 }
