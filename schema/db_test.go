@@ -26,7 +26,8 @@ func pragmaValue(t *testing.T, conn *sql.Conn, name string) string {
 func TestDBPragmas(t *testing.T) {
 	db := MustOpenDB(t)
 	ctx := context.Background()
-	want := map[string]string{"journal_mode": "wal", "foreign_keys": "1", "synchronous": "2", "busy_timeout": "10000"}
+	want := map[string]string{"journal_mode": "wal", "foreign_keys": "1", "synchronous": "1", "busy_timeout": "10000",
+		"wal_autocheckpoint": "0", "journal_size_limit": "67108864"}
 	check := func(t *testing.T, pool *sql.DB, n int, extra map[string]string) {
 		// Hold n connections at once so that the pool has to open more than its
 		// first one: every one of them must carry the pragmas of the DSN.

@@ -1846,7 +1846,7 @@ func (m *merger) reading(r *Reading, lookup, insert *sql.Stmt) error {
 			return err
 		}
 	}
-	if err := checkSupersedes(context.Background(), m.tx, r.JobID, r); err != nil {
+	if err := checkSupersedes(func(q string, args ...any) rowScanner { return m.tx.QueryRowContext(m.ctx, q, args...) }, r.JobID, r); err != nil {
 		return err
 	}
 	if r.DeviceID != "" {

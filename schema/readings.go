@@ -198,24 +198,14 @@ func (db *DB) AddReadings(ctx context.Context, a Actor, jobID string, rs []Readi
 	}
 	at, stamp := db.stamp()
 	results := make([]ReadingResult, len(rs))
-	err := db.writeTx(ctx, func(tx *sql.Tx) error {
+	err := db.writeReadings(ctx, func(tx *sql.Tx, st *stmtCache) error {
 		u, err := jobUnits(tx, jobID)
 		if err != nil {
 			return err
 		}
-		b := &readingBatch{ctx: ctx, tx: tx, jobID: jobID, units: u, now: at, stamp: stamp,
+		b := &readingBatch{st: st, jobID: jobID, units: u, now: at, stamp: stamp,
 			subjects: map[string]*subjectInfo{}, known: map[string]error{}}
-		// Prepared once per batch: most readings run both.
-		if b.lookup, err = tx.PrepareContext(ctx, "SELECT job_id, seq, subject_kind, subject_id, quantity, point, value, unit, stage, void FROM readings WHERE id = ?"); err != nil {
-			return err
-		}
-		defer b.lookup.Close()
-		defer func() {
-			if b.insert != nil {
-				b.insert.Close()
-			}
-		}()
-		if err := tx.QueryRowContext(ctx, "SELECT seq FROM jobs WHERE id = ?", jobID).Scan(&b.seq); err != nil {
+		if err := st.QueryRow("SELECT seq FROM jobs WHERE id = ?", jobID).Scan(&b.seq); err != nil {
 			return fmt.Errorf("job %s: change number: %w", jobID, err)
 		}
 		startSeq := b.seq
@@ -230,7 +220,7 @@ func (db *DB) AddReadings(ctx context.Context, a Actor, jobID string, rs []Readi
 		}
 		// One update for the batch rather than one per reading: the batch holds
 		// the only writer, so nobody else hands out numbers meanwhile.
-		_, err = tx.ExecContext(ctx, "UPDATE jobs SET seq = ? WHERE id = ?", b.seq, jobID)
+		_, err = st.Exec("UPDATE jobs SET seq = ? WHERE id = ?", b.seq, jobID)
 		return err
 	})
 	if err != nil {
@@ -242,8 +232,7 @@ func (db *DB) AddReadings(ctx context.Context, a Actor, jobID string, rs []Readi
 // readingBatch is the state of one AddReadings transaction; it caches the
 // lookups that the readings of a batch share.
 type readingBatch struct {
-	ctx      context.Context
-	tx       *sql.Tx
+	st       *stmtCache
 	jobID    string
 	units    measure.UnitSystem
 	now      time.Time
@@ -251,9 +240,9 @@ type readingBatch struct {
 	subjects map[string]*subjectInfo // by kind + "/" + id
 	known    map[string]error        // instrument and device checks, by table + "/" + id
 	seq      int64                   // the job's last change number handed out
-	lookup   *sql.Stmt               // a stored reading's job and seq, by id
-	insert   *sql.Stmt               // insertReadingSQL, prepared on first use
 }
+
+const lookupReadingSQL = "SELECT job_id, seq, subject_kind, subject_id, quantity, point, value, unit, stage, void FROM readings WHERE id = ?"
 
 const insertReadingSQL = `INSERT INTO readings (id, job_id, subject_kind, subject_id, quantity, point, value, unit,
 	stage, instrument_id, technician, device_id, taken_at, received_at, supersedes, void, note, seq)
@@ -280,7 +269,7 @@ func (b *readingBatch) add(a Actor, r *Reading) (ReadingResult, error) {
 		var job string
 		var seq int64
 		var stored Reading
-		err := b.lookup.QueryRowContext(b.ctx, r.ID).Scan(&job, &seq, &stored.SubjectKind, &stored.SubjectID,
+		err := b.st.QueryRow(lookupReadingSQL, r.ID).Scan(&job, &seq, &stored.SubjectKind, &stored.SubjectID,
 			&stored.Quantity, &stored.Point, &stored.Value, &stored.Unit, &stored.Stage, &stored.Void)
 		switch {
 		case err == nil && job == b.jobID && !sameMeasurement(stored, *r):
@@ -317,13 +306,7 @@ func (b *readingBatch) add(a Actor, r *Reading) (ReadingResult, error) {
 		return res, err
 	}
 	seq := b.seq + 1
-	var err error
-	if b.insert == nil {
-		if b.insert, err = b.tx.PrepareContext(b.ctx, insertReadingSQL); err != nil {
-			return res, fmt.Errorf("store reading: %w", err)
-		}
-	}
-	_, err = b.insert.ExecContext(b.ctx, r.ID, r.JobID, r.SubjectKind, r.SubjectID, r.Quantity, r.Point, r.Value, r.Unit,
+	_, err := b.st.Exec(insertReadingSQL, r.ID, r.JobID, r.SubjectKind, r.SubjectID, r.Quantity, r.Point, r.Value, r.Unit,
 		r.Stage, nullString(r.InstrumentID), r.Technician, nullString(r.DeviceID), r.TakenAt.UTC().Format(timeLayout), b.stamp,
 		nullString(r.Supersedes), r.Void, r.Note, seq)
 	if err != nil {
@@ -388,19 +371,19 @@ func (b *readingBatch) check(r *Reading) error {
 			return err
 		}
 	}
-	return checkSupersedes(b.ctx, b.tx, b.jobID, r)
+	return checkSupersedes(b.st.QueryRow, b.jobID, r)
 }
 
 // checkSupersedes requires the reading r corrects or voids to be in the job and
 // to be the same measurement: subject, quantity, point and stage. A correction
 // of anything else would silently remove an unrelated reading from the results.
-func checkSupersedes(ctx context.Context, tx *sql.Tx, jobID string, r *Reading) error {
+func checkSupersedes(queryRow func(query string, args ...any) rowScanner, jobID string, r *Reading) error {
 	if r.Supersedes == "" {
 		return nil
 	}
 	var job, kind, subject, quantity, stage string
 	var point int
-	err := tx.QueryRowContext(ctx, "SELECT job_id, subject_kind, subject_id, quantity, point, stage FROM readings WHERE id = ?",
+	err := queryRow("SELECT job_id, subject_kind, subject_id, quantity, point, stage FROM readings WHERE id = ?",
 		r.Supersedes).Scan(&job, &kind, &subject, &quantity, &point, &stage)
 	switch {
 	case errors.Is(err, sql.ErrNoRows) || err == nil && job != jobID:
@@ -429,7 +412,7 @@ func (b *readingBatch) subject(kind, id string) (*subjectInfo, error) {
 		data    string
 		deleted bool
 	)
-	err := b.tx.QueryRowContext(b.ctx, "SELECT data, deleted FROM "+subjectTables[kind]+" WHERE id = ? AND job_id = ?", id, b.jobID).
+	err := b.st.QueryRow("SELECT data, deleted FROM "+subjectTables[kind]+" WHERE id = ? AND job_id = ?", id, b.jobID).
 		Scan(&data, &deleted)
 	switch {
 	case errors.Is(err, sql.ErrNoRows):
@@ -475,7 +458,7 @@ func (b *readingBatch) exists(table, field, id, query string, args ...any) error
 		return err
 	}
 	var one int
-	err := b.tx.QueryRowContext(b.ctx, query, args...).Scan(&one)
+	err := b.st.QueryRow(query, args...).Scan(&one)
 	switch {
 	case errors.Is(err, sql.ErrNoRows):
 		err = Errorf(Invalid, field, "no %s %s here", strings.TrimSuffix(table, "s"), id)

@@ -754,7 +754,7 @@ func FuzzReadingValidate(f *testing.F) {
 }
 
 // BenchmarkAddReadings20 stores batches of 20 readings in a store on disk
-// (WAL, synchronous=FULL), one batch at a time.
+// (WAL, synchronous=NORMAL), one batch at a time.
 func BenchmarkAddReadings20(b *testing.B) {
 	ctx := context.Background()
 	db, err := Open(ctx, filepath.Join(b.TempDir(), "bench.db"))

@@ -94,6 +94,7 @@ func (s *Server) handleJobUpdate(w http.ResponseWriter, r *http.Request) {
 type changesView struct {
 	*schema.Snapshot
 	Seq int64 `json:"seq"`
+	durability
 }
 
 func (s *Server) handleJobChanges(w http.ResponseWriter, r *http.Request) {
@@ -107,7 +108,7 @@ func (s *Server) handleJobChanges(w http.ResponseWriter, r *http.Request) {
 		s.writeError(w, r, err)
 		return
 	}
-	writeJSON(w, http.StatusOK, changesView{Snapshot: snap, Seq: snap.Job.Seq})
+	writeJSON(w, http.StatusOK, changesView{Snapshot: snap, Seq: snap.Job.Seq, durability: s.durability(jobID(r))})
 }
 
 func (s *Server) handleJobAudit(w http.ResponseWriter, r *http.Request) {

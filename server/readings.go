@@ -24,10 +24,24 @@ type readingsRequest struct {
 }
 
 // readingsResponse gives each reading's fate, in the batch's order, and the
-// highest change number among them (0 when none was stored or known).
+// highest change number among them (0 when none was stored or known). A
+// device keeps a stored reading until durable_seq reaches its seq under the
+// same boot_id (see schema.DB.DurableSeq).
 type readingsResponse struct {
 	Results []schema.ReadingResult `json:"results"`
 	Seq     int64                  `json:"seq"`
+	durability
+}
+
+// durability says how far the job's changes are on disk in this run of the
+// store.
+type durability struct {
+	BootID     string `json:"boot_id"`
+	DurableSeq int64  `json:"durable_seq"`
+}
+
+func (s *Server) durability(job string) durability {
+	return durability{BootID: s.DB.BootID(), DurableSeq: s.DB.DurableSeq(job)}
 }
 
 // handleReadingsCreate stores a batch in one transaction. A reading that does
@@ -71,7 +85,7 @@ func (s *Server) handleReadingsCreate(w http.ResponseWriter, r *http.Request) {
 	for j, res := range stored {
 		results[idx[j]] = res
 	}
-	resp := readingsResponse{Results: results}
+	resp := readingsResponse{Results: results, durability: s.durability(jobID(r))}
 	for _, res := range results {
 		resp.Seq = max(resp.Seq, res.Seq)
 	}

@@ -12,8 +12,10 @@ import (
 )
 
 type batchResponse struct {
-	Results []schema.ReadingResult
-	Seq     int64
+	Results    []schema.ReadingResult
+	Seq        int64
+	BootID     string `json:"boot_id"`
+	DurableSeq int64  `json:"durable_seq"`
 }
 
 func (t *testServer) postBatch(tb testing.TB, job, token string, rs []schema.Reading) batchResponse {
@@ -62,6 +64,28 @@ func TestReadings(t *testing.T) {
 		got := ts.readings(t, f.job)
 		if len(got) != 20 || got[0].DeviceID != ts.techDev.ID || got[0].Technician != "Sam" || got[0].JobID != f.job {
 			t.Fatalf("stored %d readings, first %+v", len(got), got[0])
+		}
+	})
+	t.Run("OKDurability", func(t *testing.T) {
+		// A device learns when its readings are on disk: durable_seq under the
+		// boot id it saw, never ahead of what is stored.
+		if first.BootID != ts.db.BootID() || first.DurableSeq > first.Seq {
+			t.Fatalf("boot_id %q durable_seq %d; want %q and at most %d", first.BootID, first.DurableSeq, ts.db.BootID(), first.Seq)
+		}
+		if err := ts.db.Sync(t.Context()); err != nil {
+			t.Fatal(err)
+		}
+		var ch batchResponse
+		ts.do(t, "GET", "/jobs/"+f.job+"/changes?since=0", ts.tech, nil).decode(t, &ch)
+		if ch.BootID != first.BootID || ch.DurableSeq < first.Seq {
+			t.Errorf("changes: boot_id %q durable_seq %d after a sync; want %q and at least %d", ch.BootID, ch.DurableSeq, first.BootID, first.Seq)
+		}
+		var health struct {
+			BootID string `json:"boot_id"`
+		}
+		ts.do(t, "GET", "/health", "", nil).decode(t, &health)
+		if health.BootID != first.BootID {
+			t.Errorf("health boot_id %q; want %q", health.BootID, first.BootID)
 		}
 	})
 	t.Run("OKIdempotentRepost", func(t *testing.T) {

@@ -144,5 +144,5 @@ func (s *Server) registerHealthRoutes(r *mux.Router) {
 
 // handleHealth answers scripts and load balancers; it needs no token.
 func (s *Server) handleHealth(w http.ResponseWriter, r *http.Request) {
-	writeJSON(w, http.StatusOK, map[string]any{"status": "ok", "schema_version": schema.SchemaVersion()})
+	writeJSON(w, http.StatusOK, map[string]any{"status": "ok", "schema_version": schema.SchemaVersion(), "boot_id": s.DB.BootID()})
 }
