@@ -301,12 +301,18 @@ type TraverseResult struct {
 // TraversePointValue is one traverse point: its reading in the job's units
 // (velocity pressure or velocity) and, once computed, its velocity.
 type TraversePointValue struct {
-	Point     int      `json:"point"` // 1-based, in measure.TraverseLayout.Points order
-	Label     string   `json:"label"`
-	ReadingID string   `json:"reading_id,omitempty"`
-	Quantity  string   `json:"quantity,omitempty"` // "vp" or "velocity"; "" when not read
-	Value     *float64 `json:"value,omitempty"`
-	Velocity  *float64 `json:"velocity,omitempty"`
+	Point int    `json:"point"` // 1-based, in measure.TraverseLayout.Points order
+	Label string `json:"label"`
+	// Where to put the probe tip, in the job's length unit: Depth is the
+	// insertion depth from the inside of the duct wall (rectangular: across the
+	// width; round: along the diameter); PortOffset, rectangular only, is the
+	// line's port position along the height from the same corner.
+	Depth      float64  `json:"depth"`
+	PortOffset *float64 `json:"port_offset,omitempty"`
+	ReadingID  string   `json:"reading_id,omitempty"`
+	Quantity   string   `json:"quantity,omitempty"` // "vp" or "velocity"; "" when not read
+	Value      *float64 `json:"value,omitempty"`
+	Velocity   *float64 `json:"velocity,omitempty"`
 }
 
 // AirStateResult is a moist-air state in the job's units.
@@ -1021,7 +1027,10 @@ func (c *resultsCalc) traverse(t *Traverse) TraverseResult {
 	nVP, nVel, bad := 0, 0, false
 	accPct, accKnown := 0.0, true
 	for i, p := range pts {
-		pv := TraversePointValue{Point: i + 1, Label: p.Label()}
+		pv := TraversePointValue{Point: i + 1, Label: p.Label(), Depth: p.Depth.DuctSizeIn(c.u)}
+		if p.Diameter == 0 {
+			pv.Depth, pv.PortOffset = p.X.DuctSizeIn(c.u), resPtr(p.Y.DuctSizeIn(c.u))
+		}
 		r := byPoint[i]
 		if r != nil {
 			pv.ReadingID, pv.Quantity = r.ID, r.Quantity

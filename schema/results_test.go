@@ -318,6 +318,17 @@ func TestResultsTraverse(t *testing.T) {
 		// (measure.PitotVelocity's doc) = 1097.2·√(0.25/0.075) = 2003.2 fpm;
 		// area 24 × 12 in = 2 ft²; flow 4006.4 cfm.
 		resClose(t, "flow by hand", *tv.Flow, 4006.4, 2e-4)
+		// Probe positions: the 5-point log-Tchebycheff fractions 0.074, 0.288,
+		// 0.500, 0.712, 0.926 of the side (ISO 3966 / ASHRAE Standard 111),
+		// across the 24 in width and along the 12 in height.
+		p1, p8 := tv.Points[0], tv.Points[7]
+		if p8.Label != "line 2 point 3" || p1.PortOffset == nil || p8.PortOffset == nil {
+			t.Fatalf("points 1 and 8: %+v %+v", p1, p8)
+		}
+		resClose(t, "point 1 depth", p1.Depth, 0.074*24, 1e-9)
+		resClose(t, "point 1 port", *p1.PortOffset, 0.074*12, 1e-9)
+		resClose(t, "point 8 depth", p8.Depth, 0.5*24, 1e-9)
+		resClose(t, "point 8 port", *p8.PortOffset, 0.288*12, 1e-9)
 		resClose(t, "area", *tv.Area, 2, 1e-12)
 		if v := tv.Points[24].Velocity; v == nil || math.Abs(*v-2003.2) > 0.5 {
 			t.Errorf("point 25 velocity = %v, want 2003.2 fpm", v)
