@@ -395,3 +395,29 @@ func (r Reading) Number() (float64, error) {
 	}
 	return 0, Errorf(Invalid, "quantity", "%s %s is a %s; read it with its typed accessor", r.SubjectKind, r.Quantity, q.Dimension)
 }
+
+// DefaultUnit is the unit a reading of q is entered in on a job in unit system
+// u: the usual IP unit (first in Units), or the SI unit of its dimension.
+func (q QuantitySpec) DefaultUnit(u measure.UnitSystem) string {
+	if u != measure.SI {
+		return q.Units[0]
+	}
+	si := map[Dimension]string{DimFlow: UnitLps, DimVelocity: UnitMps, DimPressure: UnitPa, DimTemperature: UnitDegC, DimLength: UnitMm}
+	if q.Dimension == DimPressure && q.RangeUnit == UnitKPa {
+		return UnitKPa // water-side pressures
+	}
+	if unit, ok := si[q.Dimension]; ok && hasString(q.Units, unit) {
+		return unit
+	}
+	return q.Units[0]
+}
+
+// UnitLabels maps each reading unit code to the name shown to people.
+func UnitLabels() map[string]string {
+	return map[string]string{
+		UnitCFM: "cfm", UnitLps: "L/s", UnitM3h: "m³/h", UnitGPM: "gpm", UnitFPM: "fpm", UnitMps: "m/s",
+		UnitInWG: "in. w.g.", UnitPa: "Pa", UnitKPa: "kPa", UnitPsi: "psi", UnitFtWater: "ft w.c.", UnitMWater: "m w.c.",
+		UnitBar: "bar", UnitDegF: "°F", UnitDegC: "°C", UnitPercent: "%", UnitRPM: "rpm", UnitVolt: "V", UnitAmp: "A",
+		UnitInch: "in", UnitMm: "mm", UnitNone: "",
+	}
+}

@@ -284,3 +284,43 @@ func TestQuantitiesTable(t *testing.T) {
 		t.Error("outlet vp found")
 	}
 }
+
+// Every quantity has an entry unit in both systems that it accepts, and every
+// unit a label; SI entry units are SI (water pressure in kPa, the others in
+// their base or usual unit).
+func TestQuantitiesDefaultUnits(t *testing.T) {
+	labels := UnitLabels()
+	siUnits := map[string]bool{UnitLps: true, UnitMps: true, UnitPa: true, UnitKPa: true, UnitDegC: true, UnitMm: true,
+		UnitPercent: true, UnitRPM: true, UnitVolt: true, UnitAmp: true, UnitNone: true}
+	for _, q := range Quantities() {
+		for _, u := range []measure.UnitSystem{measure.IP, measure.SI} {
+			unit := q.DefaultUnit(u)
+			if !hasString(q.Units, unit) {
+				t.Errorf("%s %s: entry unit %q not accepted (%v)", q.SubjectKind, q.Quantity, unit, q.Units)
+			}
+			if u == measure.SI && !siUnits[unit] {
+				t.Errorf("%s %s: SI entry unit %q", q.SubjectKind, q.Quantity, unit)
+			}
+		}
+		for _, unit := range q.Units {
+			if _, ok := labels[unit]; !ok {
+				t.Errorf("unit %q has no label", unit)
+			}
+		}
+	}
+	if got := mustQuantity(t, SubjectWaterTest, "dp").DefaultUnit(measure.SI); got != UnitKPa {
+		t.Errorf("water dp in SI: %q, want kPa", got)
+	}
+	if got := mustQuantity(t, SubjectTraverse, "vp").DefaultUnit(measure.SI); got != UnitPa {
+		t.Errorf("traverse vp in SI: %q, want Pa", got)
+	}
+}
+
+func mustQuantity(t *testing.T, kind, quantity string) QuantitySpec {
+	t.Helper()
+	q, ok := LookupQuantity(kind, quantity)
+	if !ok {
+		t.Fatalf("no quantity %s %s", kind, quantity)
+	}
+	return q
+}

@@ -583,24 +583,36 @@ func (c *resultsCalc) run() *Results {
 
 // sitePressure sets the barometric pressure the psychrometrics use.
 func (c *resultsCalc) sitePressure() {
-	j := &c.s.Job
+	p, src, note := SitePressure(c.s.Job)
+	if note != "" {
+		c.r.Errors = append(c.r.Errors, note)
+	}
+	c.pres = p
+	c.r.SitePressure, c.r.SitePressureSource = p, src
+}
+
+// SitePressure is the barometric pressure (psia or kPa, the job's units) the
+// job's psychrometrics use, and its source: the measured barometric pressure,
+// else the standard atmosphere at the site's elevation, else sea level. note
+// says why an elevation out of range was replaced by sea level.
+func SitePressure(j Job) (p float64, source, note string) {
+	u, err := j.UnitSystem()
+	if err != nil {
+		u = measure.IP
+	}
 	if j.Barometric != nil {
-		c.r.SitePressure, c.r.SitePressureSource = *j.Barometric, "barometric"
-		c.pres = *j.Barometric
-		return
+		return *j.Barometric, "barometric", ""
 	}
 	z, src := 0.0, "sea_level"
 	if j.Elevation != nil {
 		z, src = *j.Elevation, "elevation"
 	}
-	p, err := measure.StandardPressure(c.u, z)
+	p, err = measure.StandardPressure(u, z)
 	if err != nil {
-		c.r.Errors = append(c.r.Errors, "site elevation: "+err.Error()+"; sea level used")
-		p, _ = measure.StandardPressure(c.u, 0)
-		src = "sea_level"
+		p, _ = measure.StandardPressure(u, 0)
+		return p, "sea_level", "site elevation: " + err.Error() + "; sea level used"
 	}
-	c.pres = p
-	c.r.SitePressure, c.r.SitePressureSource = p, src
+	return p, src, ""
 }
 
 // ---- instruments ----
