@@ -16,6 +16,7 @@ func (s *Server) registerRoutes(api *mux.Router) {
 	s.registerJobRoutes(r)
 	s.registerRecordRoutes(r)
 	s.registerReadingRoutes(r)
+	s.registerReferenceRoutes(r)
 }
 
 // jobID is the {job} path variable.

@@ -67,6 +67,7 @@ func New(db *schema.DB, addr string, logger *slog.Logger) *Server {
 	s.registerHealthRoutes(api)
 	s.registerPairingRoutes(api)
 	s.registerRoutes(api)
+	s.registerAppRoutes() // last: it takes every other GET path
 	s.srv = &http.Server{
 		Handler:           s.router,
 		ReadHeaderTimeout: 10 * time.Second,
