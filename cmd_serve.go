@@ -122,7 +122,7 @@ func (m *Main) printJoinInfo(srv *server.Server, dbPath string) {
 	for _, ip := range hosts {
 		urls = append(urls, fmt.Sprintf("http://%s/", net.JoinHostPort(ip, strconv.Itoa(port))))
 	}
-	fmt.Fprintln(m.Stdout, "Phones and tablets on the same network reach it at (API under /api/v1; the field app comes in a later release):")
+	fmt.Fprintln(m.Stdout, "Open the field app on a phone or tablet on the same network at:")
 	for _, u := range urls {
 		fmt.Fprintln(m.Stdout, "  "+u)
 	}
