@@ -1,0 +1,207 @@
+// The outbox: every reading is written to IndexedDB before anything else
+// happens to it, then sent by sync.js. An entry is
+//   waiting  — not yet acknowledged by the server (sent again until it is);
+//   sent     — acknowledged (stored or duplicate) with the change number `seq`
+//              under the server run `boot_id`, kept until the server says that
+//              change is on its disk (durable_seq ≥ seq, same boot_id);
+//   rejected — the server refused it; it stays, with the reason, until it is
+//              fixed or discarded.
+// The server ignores a reading id it already has, so sending twice is safe.
+
+import { store } from './store.js';
+
+const rows = new Map(); // id → row, the in-memory copy of the outbox store
+const listeners = new Set();
+let kick = () => {};
+
+// newUUID: a version 4 UUID from crypto.getRandomValues (crypto.randomUUID
+// exists only in secure contexts, and a LAN page over http is not one).
+export function newUUID() {
+  const b = crypto.getRandomValues(new Uint8Array(16));
+  b[6] = (b[6] & 0x0f) | 0x40;
+  b[8] = (b[8] & 0x3f) | 0x80;
+  const x = Array.from(b, (v) => v.toString(16).padStart(2, '0')).join('');
+  return `${x.slice(0, 8)}-${x.slice(8, 12)}-${x.slice(12, 16)}-${x.slice(16, 20)}-${x.slice(20)}`;
+}
+
+function technician() {
+  const d = store.metaSync('device');
+  return store.metaSync('technician') || (d && d.name) || '';
+}
+
+// The server refuses unknown fields, so a reading is rebuilt with exactly these.
+function cleanReading(r) {
+  const out = {
+    id: r.id,
+    subject_kind: r.subject_kind,
+    subject_id: r.subject_id,
+    quantity: r.quantity,
+    point: Number(r.point) || 0,
+    unit: r.unit ?? '',
+    stage: r.stage || 'final',
+    instrument_id: r.instrument_id || '',
+    technician: r.technician || technician(),
+    taken_at: r.taken_at || new Date().toISOString(),
+    supersedes: r.supersedes || '',
+    void: !!r.void,
+    note: r.note || '',
+  };
+  if (!out.void && r.value !== null && r.value !== undefined) out.value = Number(r.value);
+  return out;
+}
+
+function notify() {
+  for (const fn of listeners) {
+    try { fn(); } catch (e) { console.error(e); }
+  }
+}
+
+function byCreated(a, b) { return a.created - b.created || (a.id < b.id ? -1 : 1); }
+
+export const outbox = {
+  async load() {
+    rows.clear();
+    for (const r of await store.outboxAll()) rows.set(r.id, r);
+  },
+
+  // sync.js registers how to start a send.
+  setKick(fn) { kick = fn; },
+
+  // add(jobId, reading) resolves once the entry is on disk, then starts a send.
+  async add(jobId, reading) {
+    const rd = cleanReading({ ...reading, id: reading.id || newUUID() });
+    const row = { id: rd.id, job: jobId, reading: rd, state: 'waiting', reason: '', field: '', seq: 0, boot_id: '', created: Date.now() };
+    await store.outboxWrite([row]);
+    rows.set(row.id, row);
+    notify();
+    kick();
+    return row;
+  },
+
+  // addMany(jobId, readings): several entries in one transaction (a screen
+  // that saves a group of values with one button).
+  async addMany(jobId, readings) {
+    const now = Date.now();
+    const list = readings.map((r, i) => {
+      const rd = cleanReading({ ...r, id: r.id || newUUID() });
+      return { id: rd.id, job: jobId, reading: rd, state: 'waiting', reason: '', field: '', seq: 0, boot_id: '', created: now + i / 1000 };
+    });
+    if (!list.length) return [];
+    await store.outboxWrite(list);
+    for (const row of list) rows.set(row.id, row);
+    notify();
+    kick();
+    return list;
+  },
+
+  entries(jobId) {
+    return [...rows.values()].filter((r) => !jobId || r.job === jobId).sort(byCreated);
+  },
+
+  get(id) { return rows.get(id) || null; },
+
+  counts(jobId) {
+    const c = { waiting: 0, sent: 0, rejected: 0 };
+    for (const r of rows.values()) if (!jobId || r.job === jobId) c[r.state]++;
+    return c;
+  },
+
+  // forSubject: entries of one outlet, test or system, newest last.
+  forSubject(jobId, kind, id) {
+    return this.entries(jobId).filter((r) => r.reading.subject_kind === kind && r.reading.subject_id === id);
+  },
+
+  async discard(id) {
+    if (!rows.has(id)) return;
+    await store.outboxWrite([], [id]);
+    rows.delete(id);
+    notify();
+  },
+
+  // fix(id, newValue, changes): replaces a rejected entry by a corrected
+  // reading with a new id (the first one never reached the store). The time
+  // it was taken stays that of the original.
+  async fix(id, newValue, changes = {}) {
+    const old = rows.get(id);
+    if (!old) return null;
+    const rd = cleanReading({ ...old.reading, ...changes, value: newValue, id: newUUID() });
+    const row = { ...old, id: rd.id, reading: rd, state: 'waiting', reason: '', field: '', seq: 0, boot_id: '', created: Date.now() };
+    await store.outboxWrite([row], [id]);
+    rows.delete(id);
+    rows.set(row.id, row);
+    notify();
+    kick();
+    return row;
+  },
+
+  onChange(fn) { listeners.add(fn); return () => listeners.delete(fn); },
+
+  // ---- for sync.js ----
+
+  waiting(jobId) { return this.entries(jobId).filter((r) => r.state === 'waiting'); },
+
+  // applyResults records the server's answer to a batch.
+  async applyResults(jobId, response) {
+    const puts = [];
+    for (const res of response.results || []) {
+      const row = rows.get(res.id);
+      if (!row || row.job !== jobId) continue;
+      let next;
+      if (res.status === 'stored' || res.status === 'duplicate') {
+        // A duplicate may come without its seq: the batch's seq is an upper bound.
+        next = { ...row, state: 'sent', seq: res.seq || response.seq || 0, boot_id: response.boot_id || '', reason: '', field: '' };
+      } else if (res.status === 'rejected') {
+        next = { ...row, state: 'rejected', reason: res.reason || 'refused by the server', field: res.field || '' };
+      } else continue;
+      puts.push(next);
+    }
+    if (!puts.length) return;
+    await store.outboxWrite(puts);
+    for (const r of puts) rows.set(r.id, r);
+    notify();
+  },
+
+  // rejectRows marks entries refused as a whole request (e.g. the job is gone).
+  async rejectRows(ids, reason, field) {
+    const puts = ids.map((id) => rows.get(id)).filter(Boolean).map((r) => ({ ...r, state: 'rejected', reason, field: field || '' }));
+    if (!puts.length) return;
+    await store.outboxWrite(puts);
+    for (const r of puts) rows.set(r.id, r);
+    notify();
+  },
+
+  // confirmDurable deletes sent entries whose change is on the server's disk.
+  async confirmDurable(jobId, bootId, durableSeq) {
+    if (!bootId) return;
+    const ids = [];
+    for (const r of rows.values()) {
+      if (r.job === jobId && r.state === 'sent' && r.boot_id === bootId && r.seq > 0 && r.seq <= durableSeq) ids.push(r.id);
+    }
+    if (!ids.length) return;
+    await store.outboxWrite([], ids);
+    for (const id of ids) rows.delete(id);
+    notify();
+  },
+
+  // resend puts sent entries back to waiting when the server run changed
+  // (bootId differs: the laptop may have lost power before its disk sync) or,
+  // with bootId null, always (the server lost the job's state).
+  async resend(jobId, bootId) {
+    const puts = [];
+    for (const r of rows.values()) {
+      if (r.job === jobId && r.state === 'sent' && (bootId === null || r.boot_id !== bootId)) {
+        puts.push({ ...r, state: 'waiting', seq: 0, boot_id: '' });
+      }
+    }
+    if (!puts.length) return 0;
+    await store.outboxWrite(puts);
+    for (const r of puts) rows.set(r.id, r);
+    notify();
+    return puts.length;
+  },
+
+  hasUnconfirmed(jobId) {
+    for (const r of rows.values()) if (r.job === jobId && r.state === 'sent') return true;
+    return false;
+  },
+};

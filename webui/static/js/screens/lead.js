@@ -1,0 +1,273 @@
+// Lead's tools: join codes (text and QR), devices with revoke, the CSV
+// schedule import with its preview, and a small outlet design editor.
+// The server checks the role too; this screen only hides what a technician
+// may not do.
+
+import { h, fmt, button, select, field, message, clear, kindWord, parseNumber, dateTimeText, timeText } from '../ui.js';
+
+// Kept across re-renders (a sync update every few seconds must not wipe a
+// code just shown or a preview just made).
+let lastCode = null;          // {code, role, expires_at, join_url, qr_png}
+let devices = { at: 0, list: null, error: '' };
+let preview = null;           // {kind, text, problems, report}
+let editId = null;            // outlet being edited, or 'new'
+let editMsg = null;           // {kind, text}
+let editParam = null;         // the ?outlet= last followed
+let draft = { kind: 'outlets', text: '' }; // the import text as typed
+
+const enc = encodeURIComponent;
+
+function joinCodeCard(ctx) {
+  const roleSel = select({ id: 'join-role', 'data-test': 'join-role' }, [['technician', 'Technician (crew)'], ['lead', 'Lead']], 'technician');
+  const out = h('div', { 'data-test': 'join-code-box', 'aria-live': 'polite' });
+  const paint = () => {
+    clear(out);
+    if (!lastCode) return;
+    const code = lastCode.code || '';
+    out.append(
+      h('p', { class: 'codebox', 'data-test': 'join-code-text' }, code),
+      h('p', {}, `${kindWord(lastCode.role || '')} code, valid until ${timeText(lastCode.expires_at)}. Scan the QR code or open:`),
+      h('p', { class: 'small', 'data-test': 'join-url' }, lastCode.join_url || ''),
+      lastCode.qr_png ? h('img', {
+        class: 'qr', 'data-test': 'join-qr', alt: `QR code of the join address for code ${code}`,
+        src: `data:image/png;base64,${lastCode.qr_png}`, width: '220', height: '220',
+      }) : null);
+  };
+  const err = h('p', { class: 'msg msg-error', role: 'alert', hidden: true });
+  const btn = button('New join code', { 'data-test': 'new-join-code' }, async () => {
+    err.hidden = true;
+    btn.disabled = true;
+    try {
+      const res = await ctx.api.post('/join-codes', { role: roleSel.value });
+      lastCode = { role: roleSel.value, ...res };
+      paint();
+    } catch (e) {
+      err.textContent = `No code: ${e.message}`;
+      err.hidden = false;
+    } finally {
+      btn.disabled = false;
+    }
+  });
+  paint();
+  return h('section', { class: 'card' },
+    h('h2', {}, 'Join a device'),
+    h('p', { class: 'small muted' }, 'A code is short-lived. A lead code joins one device; a crew code joins any number until it expires.'),
+    h('div', { class: 'row' }, h('div', { class: 'grow' }, field('Role', roleSel)), btn),
+    err, out);
+}
+
+async function loadDevices(ctx, force) {
+  if (!force && devices.list && Date.now() - devices.at < 15000) return;
+  try {
+    const res = await ctx.api.get('/devices');
+    devices = { at: Date.now(), list: res.devices || [], error: '' };
+  } catch (e) {
+    devices = { at: Date.now(), list: devices.list, error: e.message };
+  }
+}
+
+function devicesCard(ctx) {
+  const me = ctx.device && ctx.device.id;
+  const list = [...(devices.list || [])].sort((a, b) => (a.revoked_at ? 1 : 0) - (b.revoked_at ? 1 : 0) || a.name.localeCompare(b.name));
+  const box = h('section', { class: 'card' }, h('h2', {}, 'Devices'),
+    devices.error ? message('error', `Could not list devices: ${devices.error}`) : null);
+  if (!list.length) { box.append(h('p', {}, devices.list ? 'No devices.' : 'Loading…')); return box; }
+  box.append(h('ul', { class: 'list' }, list.map((d) => {
+    const revoked = !!d.revoked_at;
+    const err = h('p', { class: 'msg msg-error', role: 'alert', hidden: true });
+    const revoke = revoked || d.id === me ? null : button('Revoke', { class: 'btn danger', 'data-test': 'device-revoke' }, async () => {
+      try {
+        await ctx.api.post(`/devices/${enc(d.id)}/revoke`, {});
+        await loadDevices(ctx, true);
+        ctx.rerender();
+      } catch (e) {
+        err.textContent = e.message;
+        err.hidden = false;
+      }
+    });
+    return h('li', { class: 'item', 'data-test': 'device', 'data-name': d.name, 'data-revoked': String(revoked) },
+      h('span', { class: 'tag' }, d.name),
+      h('span', { class: 'room' }, `${d.role}${d.id === me ? ' · this device' : ''} · ${revoked ? `revoked ${dateTimeText(d.revoked_at)}` : `last seen ${d.last_seen ? dateTimeText(d.last_seen) : 'never'}`}`),
+      revoke, err);
+  })));
+  return box;
+}
+
+function importCard(ctx) {
+  const kindSel = select({ id: 'import-kind', 'data-test': 'import-kind' },
+    [['outlets', 'Outlet schedule'], ['equipment', 'Equipment schedule']], draft.kind);
+  const text = h('textarea', { id: 'import-csv', 'data-test': 'import-csv', spellcheck: 'false', wrap: 'off', placeholder: 'Paste the CSV here, or choose a file', value: draft.text || null });
+  const file = h('input', { type: 'file', accept: '.csv,text/csv', 'data-test': 'import-file', id: 'import-file' });
+  const problems = h('ul', { class: 'problems', 'data-test': 'import-problems' });
+  const summary = h('p', { 'data-test': 'import-summary', 'aria-live': 'polite' });
+  const previewBtn = button('Check the file', { 'data-test': 'import-preview', class: 'btn secondary' }, () => run(true));
+  const commitBtn = button('Import', { 'data-test': 'import-commit' }, () => run(false));
+
+  // The import button is on only while the checked text is unchanged and clean.
+  const paint = () => {
+    draft = { kind: kindSel.value, text: text.value };
+    clear(problems);
+    summary.textContent = '';
+    const clean = preview && preview.text === text.value && preview.kind === kindSel.value && !preview.problems.length && !preview.error;
+    commitBtn.disabled = !clean || !text.value.trim();
+    if (!preview) return;
+    if (preview.error) { summary.textContent = preview.error; summary.className = 'msg msg-error'; return; }
+    summary.className = preview.problems.length ? 'msg msg-error' : 'msg msg-ok';
+    const rep = preview.report || {};
+    const counts = `${rep.created || 0} new, ${rep.updated || 0} changed, ${rep.unchanged || 0} unchanged`;
+    if (preview.done) summary.textContent = `Imported: ${counts}.`;
+    else if (preview.problems.length) summary.textContent = `${preview.problems.length} problem(s); fix the file and check again. Nothing is imported while any line is wrong.`;
+    else summary.textContent = preview.text === text.value ? `No problems: ${counts}. Press Import to store it.` : 'The text changed: check it again.';
+    for (const p of preview.problems) {
+      problems.append(h('li', { 'data-line': String(p.line), 'data-column': p.column || '' },
+        `line ${p.line}${p.column ? `, column ${p.column}` : ''}: ${p.message}`));
+    }
+  };
+
+  async function run(dry) {
+    const body = text.value;
+    const kind = kindSel.value;
+    if (!body.trim()) { preview = { kind, text: body, problems: [], error: 'Paste or choose a CSV file first.' }; paint(); return; }
+    previewBtn.disabled = true;
+    commitBtn.disabled = true;
+    try {
+      const rep = await ctx.api.post(`/jobs/${enc(ctx.jobId)}/import/${kind}${dry ? '?dry_run=1' : ''}`, body, { contentType: 'text/csv' });
+      preview = { kind, text: body, problems: rep.problems || [], report: rep, done: !dry };
+      if (!dry) ctx.sync.refresh().catch(() => {});
+    } catch (e) {
+      const rep = e.data && e.data.problems ? e.data : null;
+      preview = rep ? { kind, text: body, problems: rep.problems, report: rep } : { kind, text: body, problems: [], error: e.message };
+    } finally {
+      previewBtn.disabled = false;
+    }
+    paint();
+  }
+
+  text.addEventListener('input', paint);
+  kindSel.addEventListener('change', paint);
+  file.addEventListener('change', async () => {
+    const f = file.files && file.files[0];
+    if (!f) return;
+    text.value = await f.text();
+    text.dataset.dirty = '1';
+    paint();
+  });
+  paint();
+
+  return h('section', { class: 'card' },
+    h('h2', {}, 'Import a design schedule (CSV)'),
+    h('p', { class: 'small muted' }, 'Check the file first: problems are listed by line and column, and nothing is imported while any line is wrong.'),
+    field('What the file holds', kindSel),
+    field('File', file),
+    h('div', { class: 'field' }, h('label', { for: 'import-csv' }, 'CSV text'), text),
+    h('div', { class: 'actions' }, previewBtn, commitBtn),
+    summary, problems);
+}
+
+function outletEditor(ctx) {
+  const snap = ctx.view.snapshot;
+  const u = ctx.view.results.units || {};
+  const systems = snap.systems || [];
+  const sysTag = new Map(systems.map((s) => [s.id, s.tag]));
+  const outlets = [...(snap.outlets || [])].sort((a, b) =>
+    (sysTag.get(a.system_id) || '').localeCompare(sysTag.get(b.system_id) || '') || a.tag.localeCompare(b.tag, undefined, { numeric: true }));
+  if (editId === null) editId = ctx.params.outlet || (outlets[0] && outlets[0].id) || 'new';
+  if (editId !== 'new' && !outlets.some((o) => o.id === editId)) editId = outlets[0] ? outlets[0].id : 'new';
+
+  const pick = select({ id: 'edit-outlet-pick', 'data-test': 'edit-outlet-pick' },
+    [...outlets.map((o) => [o.id, `${sysTag.get(o.system_id) || '?'} · ${o.tag} · ${o.room}`]), ['new', '+ New outlet']], editId);
+  const formBox = h('div');
+  const msg = h('div', { 'aria-live': 'polite' });
+  if (editMsg) msg.append(message(editMsg.kind, editMsg.text, { 'data-test': 'edit-message' }));
+
+  const build = () => {
+    clear(formBox);
+    const rec = editId === 'new'
+      ? { system_id: (systems[0] || {}).id || '', tag: '', room: '', kind: 'supply', size: '', design_flow: null, method: 'hood', factor: 1, ak: null }
+      : outlets.find((o) => o.id === editId);
+    const k = { 'data-key': editId };
+    const inp = (test, value, extra) => h('input', { 'data-test': test, ...k, value: value ?? null, autocomplete: 'off', ...extra });
+    const f = {
+      system: select({ 'data-test': 'edit-system', ...k }, systems.map((s) => [s.id, `${s.tag} · ${s.name}`]), rec.system_id),
+      tag: inp('edit-tag', rec.tag, { maxlength: '40' }),
+      room: inp('edit-room', rec.room),
+      kind: select({ 'data-test': 'edit-kind', ...k }, ['supply', 'return', 'exhaust', 'outdoor_air'].map((x) => [x, kindWord(x)]), rec.kind),
+      size: inp('edit-size', rec.size, { maxlength: '40' }),
+      design_flow: inp('edit-design_flow', rec.design_flow, { inputmode: 'decimal' }),
+      method: select({ 'data-test': 'edit-method', ...k }, [['hood', 'Flow hood × factor'], ['ak', 'Velocity × Ak']], rec.method || 'hood'),
+      factor: inp('edit-factor', rec.factor || 1, { inputmode: 'decimal' }),
+      ak: inp('edit-ak', rec.ak || null, { inputmode: 'decimal' }),
+    };
+    const err = h('p', { class: 'msg msg-error', role: 'alert', hidden: true });
+    const save = button(editId === 'new' ? 'Add the outlet' : 'Save the design data', { 'data-test': 'edit-save' }, async () => {
+      err.hidden = true;
+      const num = (el, name, required) => {
+        const v = parseNumber(el.value);
+        if (v === null && (required || el.value.trim())) throw new Error(`${name}: type a number.`);
+        return v ?? 0;
+      };
+      let body;
+      try {
+        body = {
+          ...(editId === 'new' ? {} : rec),
+          system_id: f.system.value, tag: f.tag.value.trim(), room: f.room.value.trim(), kind: f.kind.value, size: f.size.value.trim(),
+          design_flow: num(f.design_flow, 'Design flow', true), method: f.method.value,
+          factor: f.method.value === 'hood' ? num(f.factor, 'Factor', true) : (num(f.factor, 'Factor') || 1),
+          ak: f.method.value === 'ak' ? num(f.ak, 'Ak', true) : num(f.ak, 'Ak'),
+        };
+      } catch (e) { err.textContent = e.message; err.hidden = false; return; }
+      save.disabled = true;
+      try {
+        const path = `/jobs/${enc(ctx.jobId)}/outlets`;
+        const res = editId === 'new' ? await ctx.api.post(path, body) : await ctx.api.put(`${path}/${enc(editId)}`, body);
+        editId = res.id || editId;
+        editMsg = { kind: 'ok', text: `Saved ${res.tag || body.tag}.` };
+        for (const el of Object.values(f)) delete el.dataset.dirty;
+        await ctx.sync.refresh();
+        ctx.rerender();
+      } catch (e) {
+        err.textContent = e.field ? `${e.field}: ${e.message}` : e.message;
+        err.hidden = false;
+      } finally {
+        save.disabled = false;
+      }
+    });
+    formBox.append(h('div', { class: 'form-grid' },
+      field('System', f.system),
+      field('Tag', f.tag),
+      field('Room', f.room),
+      field('Kind', f.kind),
+      field('Size', f.size, 'As scheduled, e.g. 24x24 or 10 in round'),
+      field(`Design flow (${u.air_flow || ''})`, f.design_flow),
+      field('Method', f.method),
+      field('Hood factor', f.factor, '1 when the hood reads the outlet as it is'),
+      field(`Ak (${u.area || ''})`, f.ak, 'Effective area, for velocity × Ak')), err, save);
+  };
+  pick.addEventListener('change', () => { editId = pick.value; editMsg = null; clear(msg); build(); });
+  build();
+
+  return h('section', { class: 'card', 'data-test': 'edit-outlet' },
+    h('h2', {}, 'Outlet design data'),
+    field('Outlet', pick),
+    msg, formBox);
+}
+
+export async function render(ctx) {
+  if (ctx.role !== 'lead') {
+    return h('section', { class: 'card', 'data-test': 'lead-denied' },
+      h('h2', {}, 'For the lead\'s device'),
+      h('p', {}, 'Join codes, devices and design data are managed from the lead\'s device.'));
+  }
+  if (ctx.params.outlet && ctx.params.outlet !== editParam) {
+    editParam = ctx.params.outlet;
+    editId = ctx.params.outlet;
+    editMsg = null;
+  }
+  await loadDevices(ctx, false);
+  return h('div', { 'data-test': 'lead-screen' },
+    h('div', { class: 'screen-head' }, h('h1', {}, 'Lead'), h('p', { class: 'sub' }, ctx.view.job.name)),
+    h('div', { class: 'cols' },
+      h('div', {}, joinCodeCard(ctx), devicesCard(ctx)),
+      h('div', {}, importCard(ctx), outletEditor(ctx))),
+    h('p', { class: 'small muted' }, `Units: ${ctx.units === 'si' ? 'SI' : 'IP'}; design flows in ${(ctx.view.results.units || {}).air_flow || ''}. ${fmt(ctx.view.snapshot.outlets.length, 0)} outlets on this job.`));
+}

@@ -1,0 +1,218 @@
+// Small DOM helpers. Every piece of text goes in as a text node or an
+// attribute value, never as markup, so a tag like `<script>` shows as text.
+
+const SVG_NS = 'http://www.w3.org/2000/svg';
+// Tags that only exist in SVG: h() creates them in the SVG namespace so a
+// chart can be built with the same helper.
+const SVG_TAGS = new Set(['svg', 'g', 'circle', 'ellipse', 'line', 'path', 'polyline', 'polygon',
+  'rect', 'text', 'tspan', 'defs', 'marker', 'clipPath', 'use']);
+
+function append(el, child) {
+  if (child === null || child === undefined || child === false || child === true) return;
+  if (Array.isArray(child)) { child.forEach((c) => append(el, c)); return; }
+  el.appendChild(child instanceof Node ? child : document.createTextNode(String(child)));
+}
+
+function build(el, attrs, children) {
+  for (const [k, v] of Object.entries(attrs || {})) {
+    if (v === null || v === undefined || v === false) continue;
+    if (k === 'on') {
+      for (const [ev, fn] of Object.entries(v)) el.addEventListener(ev, fn);
+    } else if (k === 'style' && typeof v === 'object') {
+      // CSSOM properties are allowed by the CSP; style="" attributes are not.
+      Object.assign(el.style, v);
+    } else if (k === 'value' && 'value' in el && !(el instanceof SVGElement)) {
+      el.value = String(v);
+      el.defaultValue = String(v);
+    } else {
+      el.setAttribute(k, v === true ? '' : String(v));
+    }
+  }
+  append(el, children);
+  return el;
+}
+
+// h('div', {class: 'x', 'data-test': 'y', on: {click: fn}}, 'text', child, …)
+export function h(tag, attrs, ...children) {
+  const el = SVG_TAGS.has(tag) ? document.createElementNS(SVG_NS, tag) : document.createElement(tag);
+  return build(el, attrs, children);
+}
+
+// svg(tag, …) always builds in the SVG namespace (for tags shared with HTML, e.g. title, a).
+export function svg(tag, attrs, ...children) {
+  return build(document.createElementNS(SVG_NS, tag), attrs, children);
+}
+
+export function clear(el) {
+  while (el.firstChild) el.removeChild(el.firstChild);
+  return el;
+}
+
+// fmt(1234.5) → "1,235"; fmt(null) → "—". Without digits, the digits follow
+// the size of the number (about three significant figures, at least whole units).
+export function fmt(value, digits) {
+  if (value === null || value === undefined || value === '' || !Number.isFinite(Number(value))) return '—';
+  const v = Number(value);
+  if (digits === undefined) {
+    const a = Math.abs(v);
+    digits = a >= 100 ? 0 : a >= 10 ? 1 : a >= 1 ? 2 : a === 0 ? 0 : 3;
+  }
+  let f = formatters.get(digits);
+  if (!f) {
+    f = new Intl.NumberFormat('en-US', { minimumFractionDigits: digits, maximumFractionDigits: digits });
+    formatters.set(digits, f);
+  }
+  return f.format(v);
+}
+const formatters = new Map(); // one Intl formatter per digits: making one per call is slow on long lists
+
+// parseNumber reads what a technician typed: "1420", "-0.55", "12,5" (decimal
+// comma), "1,420" (thousands). Returns null when it is not a number.
+export function parseNumber(text) {
+  let s = String(text ?? '').trim().replace(/\s+/g, '').replace(/^\+/, '');
+  if (s === '') return null;
+  if (s.includes(',')) {
+    if (s.includes('.') || /^-?\d{1,3}(,\d{3})+$/.test(s)) s = s.replace(/,/g, '');
+    else s = s.replace(',', '.');
+  }
+  if (!/^-?(\d+\.?\d*|\.\d+)(e-?\d+)?$/i.test(s)) return null;
+  const v = Number(s);
+  return Number.isFinite(v) ? v : null;
+}
+
+// Status words: a colour is never the only sign, so each status has a symbol
+// and a word too.
+const STATUS_WORDS = {
+  within: ['✓', 'within'],
+  low: ['↓', 'low'],
+  high: ['↑', 'high'],
+  undetermined: ['?', 'undetermined'],
+  not_read: ['○', 'not read'],
+  waiting: ['…', 'waiting to send'],
+  sent: ['↗', 'sent'],
+  rejected: ['✕', 'rejected'],
+  error: ['!', 'error'],
+  flag: ['⚑', 'flagged'],
+  meets: ['✓', 'meets'],
+  short: ['↓', 'short'],
+  no_expected: ['?', 'no expected capacity'],
+  incomplete: ['○', 'incomplete'],
+  computed: ['✓', 'computed'],
+  current: ['✓', 'calibration current'],
+  due_soon: ['!', 'calibration due soon'],
+  overdue: ['✕', 'calibration overdue'],
+  unknown: ['?', 'calibration date unknown'],
+};
+
+export function statusWord(status) {
+  return (STATUS_WORDS[status] || ['', String(status || '').replace(/_/g, ' ')])[1];
+}
+
+export function statusBadge(status, text) {
+  const [sym, word] = STATUS_WORDS[status] || ['•', String(status || 'unknown').replace(/_/g, ' ')];
+  return h('span', { class: `badge status-${status}`, 'data-status': status },
+    h('span', { class: 'badge-sym', 'aria-hidden': 'true' }, sym), ' ', text || word);
+}
+
+// Cautions in plain words. They defer to the documents that govern the site.
+const DEFER = 'The project specification, local codes and the site safety plan govern; follow them.';
+const CAUTIONS = {
+  electrical: ['Live electrical readings',
+    'Volts and amps on live circuits are taken only by a qualified person wearing suitable PPE, with the panel or disconnect cover opened as the site allows.'],
+  roof: ['Rooftop work',
+    'Use the fall protection the site requires, keep clear of roof edges, hatches and skylights, and do not carry instruments up a ladder in your hands.'],
+  rotating: ['Belts and sheaves',
+    'Lock out and tag out the unit before touching belts, sheaves or guards; rotating equipment can start without warning. Put the guards back before restarting.'],
+  hot_water: ['Hot water and steam',
+    'Piping, valves and test ports can be hot enough to burn and under pressure. Wear gloves and eye protection and open test ports slowly.'],
+  ladder: ['Ladders',
+    'Set the ladder on firm ground, keep three points of contact and keep one hand for the ladder; rest the hood or meter, do not reach.'],
+};
+
+export function caution(kind) {
+  const [title, text] = CAUTIONS[kind] || ['Caution', ''];
+  return h('aside', { class: 'caution', role: 'note', 'data-test': 'caution', 'data-kind': kind },
+    h('strong', {}, '⚠ ', title, ': '), text, ' ', DEFER);
+}
+
+let fieldSeq = 0;
+
+// numberField({test, label, unit, value}) → {el, input}: a large numeric entry.
+// type=text with inputmode=decimal: the phone shows its number pad and the
+// value is kept as typed (type=number would drop "12," or a minus sign).
+export function numberField({ test, label, unit, value, hint }) {
+  const id = `nf-${++fieldSeq}`;
+  const input = h('input', {
+    id, type: 'text', inputmode: 'decimal', autocomplete: 'off', enterkeyhint: 'done',
+    class: 'num-input', 'data-test': test, value: value ?? null, 'aria-describedby': hint ? `${id}-hint` : null,
+  });
+  const el = h('div', { class: 'num-field' },
+    h('label', { for: id }, label),
+    h('div', { class: 'num-row' }, input, unit ? h('span', { class: 'num-unit' }, unit) : null),
+    hint ? h('div', { class: 'hint', id: `${id}-hint` }, hint) : null);
+  return { el, input };
+}
+
+// select(options, attrs): options are [value, text] pairs.
+export function select(attrs, options, selected) {
+  const el = h('select', attrs, options.map(([v, t]) => h('option', { value: v }, t)));
+  if (selected !== undefined && selected !== null) el.value = selected;
+  // Remember the chosen value as the default, so main can tell a user's change.
+  for (const o of el.options) o.defaultSelected = o.selected;
+  return el;
+}
+
+// A labelled control.
+export function field(label, control, hint) {
+  if (!control.id) control.id = `f-${++fieldSeq}`;
+  return h('div', { class: 'field' }, h('label', { for: control.id }, label), control,
+    hint ? h('div', { class: 'hint' }, hint) : null);
+}
+
+export function button(text, attrs, onClick) {
+  return h('button', { type: 'button', class: 'btn', ...attrs, on: { click: onClick } }, text);
+}
+
+// link(text, hash, attrs) → an <a> for the router.
+export function link(text, hash, attrs) {
+  return h('a', { href: hash, ...attrs }, text);
+}
+
+export function section(title, ...children) {
+  return h('section', { class: 'card' }, title ? h('h2', {}, title) : null, ...children);
+}
+
+// clean(el): forget that the user changed a field (after Save), so the next
+// re-render is free to show a fresh value.
+export function clean(el) {
+  if (el && el.dataset) delete el.dataset.dirty;
+}
+
+export function timeText(t) {
+  if (!t) return 'never';
+  const d = new Date(t);
+  if (Number.isNaN(d.getTime())) return String(t);
+  return d.toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit' });
+}
+
+export function dateTimeText(t) {
+  const d = new Date(t);
+  if (Number.isNaN(d.getTime())) return String(t || '');
+  return d.toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' });
+}
+
+// Words for record kinds, as the trade says them.
+const KIND_WORDS = {
+  air_handler: 'air handler', rooftop_unit: 'rooftop unit', fan: 'fan', pump: 'pump', water_loop: 'water loop',
+  supply: 'supply', return: 'return', exhaust: 'exhaust', outdoor_air: 'outdoor air',
+  flow_hood: 'flow hood', pitot_tube: 'pitot tube', clamp_meter: 'clamp meter', hydronic_meter: 'hydronic meter',
+  flow_meter: 'flow meter', as_found: 'as found', final: 'final',
+};
+export function kindWord(k) {
+  return KIND_WORDS[k] || String(k || '').replace(/_/g, ' ');
+}
+
+// message(kind, text) → a status line; kind "error" is announced to screen readers.
+export function message(kind, text, attrs) {
+  return h('p', { class: `msg msg-${kind}`, role: kind === 'error' ? 'alert' : 'status', ...attrs }, text);
+}
