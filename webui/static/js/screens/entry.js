@@ -1,0 +1,225 @@
+// Shared parts of the test screens (traverse, capacity, water, fan): entries
+// that survive a re-render, posting through the outbox, the entries still
+// waiting, and result rows. No engineering here: every figure is the server's.
+import { h, fmt, statusBadge, numberField, parseNumber } from '../ui.js';
+import { store } from '../store.js';
+
+// Per-screen state, kept while the app is open (sync updates rebuild screens).
+const states = new Map();
+export function screenState(key, init) {
+  if (!states.has(key)) states.set(key, { values: {}, pending: [], inst: {}, ...init() });
+  return states.get(key);
+}
+
+// put / fill append or replace children, skipping null and false (the DOM's
+// own append would show them as the text "null").
+const kids = (list) => list.flat(Infinity).filter((c) => c !== null && c !== undefined && c !== false && c !== true)
+  .map((c) => (c instanceof Node ? c : document.createTextNode(String(c))));
+export const put = (el, ...c) => { el.append(...kids(c)); return el; };
+export const fill = (el, ...c) => { el.replaceChildren(...kids(c)); return el; };
+
+export const jobUnits = (ctx) => (ctx.view.job && ctx.view.job.units) || 'ip';
+export const snap = (ctx) => ctx.view.snapshot || {};
+export const results = (ctx) => ctx.view.results || {};
+export const rUnits = (ctx) => results(ctx).units || {};
+export const byId = (list, id) => (list || []).find((x) => x.id === id) || null;
+export const unitFor = (ctx, kind, qty) => ctx.q.unitFor(kind, qty, jobUnits(ctx));
+export const unitLabel = (ctx, code) => ctx.q.label(code);
+// asEntered: a typed value without float noise (0.125, not 0.12499…).
+export const asEntered = (v) => (Number.isFinite(v) ? String(Number(v.toPrecision(6))) : '—');
+export const num = (v, digits, unit) => (Number.isFinite(v) ? `${fmt(v, digits)}${unit ? ' ' + unit : ''}` : '—');
+const stageWord = (s) => (s === 'final' ? 'final' : 'as found');
+
+// field: a big numeric entry bound to st.values[test], so what is typed
+// survives this screen redrawing its own parts (main keeps it across its
+// re-renders too, with the cursor).
+export function field(ctx, st, { test, label, kind, qty, point = 0, hint, inst }) {
+  const unit = unitFor(ctx, kind, qty);
+  const f = numberField({ test, label, unit: unitLabel(ctx, unit), value: st.values[test] ?? '', hint: hint || undefined });
+  f.input.addEventListener('input', () => { st.values[test] = f.input.value; });
+  return { el: f.el, input: f.input, test, qty, point, unit, label, inst };
+}
+
+const pick = (label, sel) => h('label', { class: 'scr-pick' }, h('span', { class: 'scr-pick-label' }, label), sel);
+
+export function stageSelect(st, onChange) {
+  const sel = h('select', { 'data-test': 'stage' }, h('option', { value: 'as_found' }, 'as found'), h('option', { value: 'final' }, 'final'));
+  sel.value = st.stage;
+  sel.addEventListener('change', () => { st.stage = sel.value; onChange(); });
+  return pick('Stage', sel);
+}
+
+// defaultStage: final once the subject has a final reading, else as found.
+export const defaultStage = (ctx, id) => ((snap(ctx).readings || []).some((r) => r.subject_id === id && r.stage === 'final') ? 'final' : 'as_found');
+
+// instrumentSelect: the job's instruments, those of the fitting kinds first.
+// st.inst[group] is the pick for that group's fields. The default is the last
+// one used of those kinds on this device (meta "instrument:<kind>", as the
+// outlet screen keeps it), else the first fitting one not overdue.
+export function instrumentSelect(ctx, st, group, kinds, { label = 'Instrument', test = 'instrument' } = {}) {
+  const cal = (i) => (byId(results(ctx).instruments, i.id) || {}).calibration_status;
+  const fits = (i) => kinds.includes(i.kind);
+  const list = [...(snap(ctx).instruments || [])].sort((a, b) => fits(b) - fits(a) || String(a.tag).localeCompare(String(b.tag)));
+  if (st.inst[group] === undefined) {
+    const last = kinds.map((k) => store.metaSync(`instrument:${k}`)).find((id) => byId(list, id));
+    const fit = list.find((i) => fits(i) && cal(i) !== 'overdue');
+    st.inst[group] = last || (fit ? fit.id : '');
+  }
+  const calWords = { overdue: ' (calibration overdue)', due_soon: ' (calibration due soon)' };
+  const sel = h('select', { 'data-test': test }, h('option', { value: '' }, 'no instrument'),
+    list.map((i) => h('option', { value: i.id }, `${i.tag} · ${String(i.kind).replace(/_/g, ' ')}${calWords[cal(i)] || ''}`)));
+  sel.value = st.inst[group];
+  st.inst[group] = sel.value;
+  sel.addEventListener('change', () => {
+    const i = byId(list, sel.value);
+    st.inst[group] = sel.value;
+    if (i) store.setMeta(`instrument:${i.kind}`, i.id).catch(() => {});
+  });
+  return pick(label, sel);
+}
+
+// collect reads the filled fields, marking those that are not numbers.
+export function collect(fields) {
+  const items = [];
+  let bad = false;
+  for (const f of fields) {
+    const text = f.input.value.trim();
+    const v = text === '' ? null : parseNumber(text);
+    const wrong = text !== '' && v === null;
+    f.input.setAttribute('aria-invalid', String(wrong));
+    bad = bad || wrong;
+    if (v !== null) items.push({ f, value: v });
+  }
+  return { items, bad };
+}
+
+// post writes the items to the outbox in one transaction (on disk before it
+// returns), clears their entries and keeps them in st.pending until the
+// server's view has them.
+export async function post(ctx, st, kind, subjectId, items) {
+  const rows = await ctx.outbox.addMany(ctx.jobId, items.map(({ f, value, supersedes }) => ({
+    subject_kind: kind, subject_id: subjectId, quantity: f.qty, point: f.point, value, unit: f.unit, stage: st.stage,
+    instrument_id: st.inst[f.inst] || '', supersedes: supersedes || '', void: false, note: '',
+  })));
+  items.forEach(({ f, value }, i) => {
+    let d = ctx.q.describe(kind, f.qty) || f.label;
+    d = d.charAt(0).toUpperCase() + d.slice(1).replace(/ at a traverse point$|, per leg or single$/, '');
+    if (f.point) d += kind === 'system' ? `, leg ${f.point}` : `, point ${f.point}`;
+    st.pending.push({ id: rows[i].id, label: d, value, unit: unitLabel(ctx, f.unit), quantity: f.qty, point: f.point, stage: st.stage });
+    delete st.values[f.test];
+    f.input.value = '';
+    delete f.input.dataset.dirty;
+  });
+}
+
+// noteLine: a line beside a Save button; st.msg shows for a few seconds.
+export function noteLine(test, st) {
+  const p = h('p', { class: 'msg msg-info', 'data-test': test, role: 'status', 'aria-live': 'polite' });
+  if (st && st.msg && Date.now() - st.msgAt < 8000) p.textContent = st.msg;
+  return p;
+}
+
+// prune forgets saved entries the server's view now has, and those that left
+// the outbox without reaching it (discarded).
+function prune(ctx, st) {
+  const have = new Set((snap(ctx).readings || []).map((r) => r.id));
+  st.pending = st.pending.filter((p) => !have.has(p.id) && ctx.outbox.get(p.id));
+}
+
+export function pendingView(ctx, st) {
+  prune(ctx, st);
+  const box = h('div', { class: 'scr-pending', 'data-test': 'pending' });
+  if (!st.pending.length) return box;
+  const say = { waiting: 'waiting to send', sent: 'sent, result coming' };
+  return put(box, h('h3', {}, 'Saved on this device'), h('ul', { class: 'scr-pending-list' }, st.pending.map((p) => {
+    const e = ctx.outbox.get(p.id);
+    return h('li', { class: `pending${e.state === 'rejected' ? ' rejected' : ''}`, 'data-test': 'pending-entry', 'data-state': e.state, 'data-quantity': p.quantity, 'data-point': String(p.point) },
+      `${p.label}: ${asEntered(p.value)} ${p.unit} `, h('strong', {}, say[e.state] || `rejected: ${e.reason || 'see the outbox'}`));
+  })));
+}
+
+// isPending: an entry saved here for this point and stage, not refused, not yet in the view.
+export function isPending(ctx, st, qtys, point, stage) {
+  prune(ctx, st);
+  return st.pending.some((p) => qtys.includes(p.quantity) && p.point === point && p.stage === stage && ctx.outbox.get(p.id).state !== 'rejected');
+}
+
+// latest: the current reading at a point and stage ('' any) that the server
+// counts (the latest taken), or null.
+export function latest(ctx, id, qtys, point, stage) {
+  let best = null;
+  for (const r of snap(ctx).readings || []) {
+    if (r.subject_id !== id || !qtys.includes(r.quantity) || (r.point || 0) !== point || (stage && r.stage !== stage) || r.void) continue;
+    if (!best || r.taken_at > best.taken_at || (r.taken_at === best.taken_at && r.seq > best.seq)) best = r;
+  }
+  return best;
+}
+
+// nowHint: "now 72 °F (final)", the stored reading a new entry would follow.
+export function nowHint(ctx, id, qty, point, stage) {
+  const r = latest(ctx, id, [qty], point, stage) || latest(ctx, id, [qty], point, '');
+  return r && Number.isFinite(r.value) ? `now ${asEntered(r.value)} ${unitLabel(ctx, r.unit)} (${stageWord(r.stage)})` : '';
+}
+
+// Status words beside the colour.
+const WORDS = {
+  within: 'within tolerance', low: 'low: below the band', high: 'high: above the band',
+  undetermined: 'undetermined with this instrument', meets: 'meets the expected capacity',
+  short: 'short of the expected capacity', no_expected: 'no expected capacity on record',
+};
+export const badge = (status) => statusBadge(status, WORDS[status]);
+
+export const row = (label, value, test) => h('div', { class: 'scr-row', 'data-test': test || null },
+  h('span', { class: 'scr-k' }, label), h('span', { class: 'scr-v' }, value ?? '—'));
+
+// tolerance: "98.7 % of design (band 3,800 to 4,400 cfm, reading ± 20 cfm)".
+export function tolerance(tol, unit, d = 0) {
+  return tol && h('div', { class: 'scr-tol' }, badge(tol.status), ' ',
+    `${fmt(tol.percent_of_design, 1)} % of design (band ${fmt(tol.low, d)} to ${fmt(tol.high, d)} ${unit}${tol.uncertainty ? `, reading ± ${fmt(tol.uncertainty, d)} ${unit}` : ''})`);
+}
+
+const msgBox = (list, cls, title, test) => list && list.length > 0 && h('div', { class: `scr-msg ${cls}`, 'data-test': test },
+  h('strong', {}, title), h('ul', {}, list.map((t) => h('li', {}, typeof t === 'string' ? t : t.text))));
+
+// messages: errors, warnings, flags and notes as plain lists.
+export const messages = (res) => h('div', { class: 'scr-msgs' },
+  msgBox(res.errors, 'scr-msg-error', 'Errors', 'result-errors'), msgBox(res.warnings, 'scr-msg-warn', 'Warnings', 'result-warnings'),
+  msgBox(res.flags, 'scr-msg-warn', 'Flags', 'result-flags'), msgBox(res.notes, 'scr-msg-note', 'Notes', 'result-notes'));
+
+// missingList: the inputs the server still needs, in words.
+export function missingList(list, words) {
+  const say = (t) => t.replace(/\b[a-z]+_[a-z_]+\b|\b(flow|dp)\b/g, (m) => words[m] || m);
+  return msgBox(list && list.map(say), 'scr-msg-note', 'Still needed', 'result-missing');
+}
+
+// header: title and subtitle (main's top bar has the way back).
+export const header = (title, sub) => h('header', { class: 'screen-head' }, h('h1', { 'data-test': 'screen-tag' }, title), sub && h('p', { class: 'sub' }, sub));
+
+export const notFound = (root, what) => put(root, header(`${what} not found`, 'It may have been deleted; go back to the job.'));
+
+// saveButton: disabled while the outbox write runs, so a double tap saves once.
+export function saveButton(test, text, onSave) {
+  const b = h('button', { type: 'button', class: 'btn big', 'data-test': test }, text);
+  b.addEventListener('click', async () => {
+    if (b.disabled) return;
+    b.disabled = true;
+    try { await onSave(); } finally { b.disabled = false; }
+  });
+  return b;
+}
+
+// saveRow: the Save button of a group of fields; done() redraws the form.
+export const saveRow = (ctx, st, { test, text = 'Save readings', kind, id, fs, note, done }) => h('div', { class: 'scr-actions' },
+  saveButton(test, text, async () => {
+    const { items, bad } = collect(fs);
+    if (bad || !items.length) { note.textContent = bad ? 'A marked entry is not a number.' : 'Nothing typed yet.'; return; }
+    await post(ctx, st, kind, id, items);
+    st.msg = `${items.length} saved on this device.`;
+    st.msgAt = Date.now();
+    done();
+  }));
+
+// resultCard: the result area, or a line saying the server has not answered.
+export const resultCard = (test, status, res, body) => put(
+  h('div', { class: 'card scr-result', 'data-test': test, 'data-status': res ? status : 'waiting' }, h('h2', {}, 'Result')),
+  res ? body() : h('p', { class: 'hint' }, 'No result from the server yet.'));

@@ -1,0 +1,193 @@
+// Traverse screen: a duct plane read point by point with a pitot tube (or an
+// anemometer). Point positions, velocities and the flow all come from the
+// server's results; the app only shows them and posts readings.
+import { h, caution } from '../ui.js';
+import { s } from '../chart.js';
+import {
+  screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, collect, post, pendingView, isPending,
+  badge, row, num, tolerance, messages, header, saveButton, noteLine, latest, nowHint, defaultStage, unitLabel, asEntered,
+  put, fill, saveRow, resultCard, notFound,
+} from './entry.js';
+
+const METHODS = { 'log-tchebycheff': 'log-Tchebycheff', 'log-linear': 'log-linear', 'equal-area': 'equal area' };
+const DENSITY = { measured: 'from the air read at the plane', standard: 'standard air (no dry bulb read)', dry_air: 'dry air at the plane dry bulb (no RH or wet bulb)' };
+const PT = ['vp', 'velocity'];
+
+// pointWords: "Line 2, point 3: 12.0 in from the wall (port 3.5 in from the corner)".
+export function pointWords(p, len) {
+  const d = len === 'mm' ? 0 : 1;
+  const m = /^(line|diameter) (\d+) point (\d+)$/.exec(p.label) || [];
+  const head = m[1] ? `${m[1] === 'line' ? 'Line' : 'Diameter'} ${m[2]}, point ${m[3]}` : `Point ${p.point}`;
+  return `${head}: ${p.depth.toFixed(d)} ${len} from the wall` +
+    (p.port_offset !== undefined ? ` (port ${p.port_offset.toFixed(d)} ${len} from the corner)` : '');
+}
+
+// pointStates: per point, whether the chosen stage has it read (stored, or
+// waiting in the outbox), the reading a re-read supersedes, and its velocity.
+function pointStates(ctx, st, tr, res) {
+  const same = res && res.stage === st.stage;
+  return ((res && res.points) || []).map((p) => {
+    const stored = latest(ctx, tr.id, PT, p.point, st.stage);
+    const pending = isPending(ctx, st, PT, p.point, st.stage);
+    return { ...p, stored, pending, read: !!stored || pending, readingId: same && p.reading_id ? p.reading_id : stored && stored.id, velocity: same ? p.velocity : undefined };
+  });
+}
+
+// nextUnread: the next point not read after from; all read (a second pass): the next one.
+function nextUnread(states, from) {
+  const n = states.length;
+  for (let i = 1; i <= n; i++) if (!states[(from - 1 + i) % n].read) return states[(from - 1 + i) % n].point;
+  return (from % n) + 1;
+}
+
+// grid draws the plane with each point read, waiting or not read; a tap selects one.
+function grid(tr, states, current, onPick) {
+  const W = 320;
+  const svg = s('svg', { class: 'tgrid', 'data-test': 'traverse-grid', role: 'group', 'aria-label': 'Traverse points' });
+  // (vx, vy): where the velocity goes from the dot.
+  const dot = (p, cx, cy, hit, vx = 0, vy = 17) => {
+    const state = p.pending && !p.stored ? 'waiting' : p.read ? 'read' : 'unread';
+    return s('g', {
+      class: `tp tp-${state}`, 'data-test': 'grid-point', 'data-point': p.point, 'data-state': state, tabindex: 0, role: 'button',
+      on: { click: () => onPick(p.point), keydown: (e) => { if (e.key === 'Enter' || e.key === ' ') { e.preventDefault(); onPick(p.point); } } },
+    }, s('title', {}, `${p.label}: ${state === 'unread' ? 'not read' : state}`), hit,
+    p.point === current && s('circle', { cx, cy, r: 11, class: 'tp-ring' }),
+    s('circle', { cx, cy, r: 6.5, class: 'tp-dot' }),
+    Number.isFinite(p.velocity) && s('text', { x: cx + vx, y: cy + vy, class: 'tp-vel', 'text-anchor': vx ? 'start' : 'middle' }, String(Math.round(p.velocity))));
+  };
+  if (tr.shape === 'round') {
+    const R = W / 2 - 22, c = W / 2, k = R / (tr.diameter / 2), nd = Math.max(1, tr.diameters);
+    svg.setAttribute('viewBox', `0 0 ${W} ${W}`);
+    svg.appendChild(s('circle', { cx: c, cy: c, r: R, class: 'tduct' }));
+    // Diameter d is entered from the left (1), then turning clockwise.
+    const dir = (d) => [Math.cos(Math.PI + (d * Math.PI) / nd), Math.sin(Math.PI + (d * Math.PI) / nd)];
+    for (let d = 0; d < nd; d++) {
+      const [ux, uy] = dir(d);
+      svg.append(s('line', { x1: c + ux * R, y1: c + uy * R, x2: c - ux * R, y2: c - uy * R, class: 'tline' }),
+        s('text', { x: c + ux * (R + 12), y: c + uy * (R + 12) + 4, class: 'tlabel', 'text-anchor': 'middle' }, String(d + 1)));
+    }
+    states.forEach((p, i) => {
+      const m = /^diameter (\d+)/.exec(p.label);
+      const [ux, uy] = dir((m ? Number(m[1]) : Math.floor(i / tr.points_per_diameter) + 1) - 1);
+      const r = R - p.depth * k; // from the entry wall through the centre
+      const cx = c + ux * r, cy = c + uy * r, steep = Math.abs(uy) > 0.7;
+      svg.appendChild(dot(p, cx, cy, s('circle', { cx, cy, r: 16, class: 'tp-hit' }), steep ? 10 : 0, steep ? 4 : 17));
+    });
+    return svg;
+  }
+  const padL = 30, pad = 12, plotW = W - padL - pad;
+  const plotH = Math.min(400, Math.max(150, plotW * (tr.height / tr.width), tr.points_h * 52));
+  const cw = plotW / tr.points_w, ch = plotH / tr.points_h;
+  svg.setAttribute('viewBox', `0 0 ${W} ${plotH + 2 * pad + 12}`);
+  svg.append(s('rect', { x: padL, y: pad, width: plotW, height: plotH, class: 'tduct' }),
+    s('text', { x: padL, y: plotH + 2 * pad + 8, class: 'tlabel' }, 'ports on this side'));
+  for (const p of states) {
+    const cx = padL + p.depth * (plotW / tr.width), cy = pad + (p.port_offset || 0) * (plotH / tr.height);
+    const m = /^line (\d+) point 1$/.exec(p.label);
+    if (m) {
+      svg.append(s('line', { x1: padL - 8, y1: cy, x2: padL, y2: cy, class: 'tport' }),
+        s('text', { x: padL - 11, y: cy + 4, class: 'tlabel', 'text-anchor': 'end' }, m[1]));
+    }
+    svg.appendChild(dot(p, cx, cy, s('rect', { x: cx - cw / 2, y: cy - ch / 2, width: cw, height: ch, class: 'tp-hit' })));
+  }
+  return svg;
+}
+
+export function render(ctx) {
+  const id = ctx.params.id;
+  const tr = byId(snap(ctx).traverses, id);
+  const root = h('section', { class: 'scr', 'data-test': 'traverse-screen', 'data-tag': tr ? tr.tag : '' });
+  if (!tr) return notFound(root, 'Traverse');
+  const st = screenState(`traverse:${ctx.jobId}:${id}`, () => ({ stage: defaultStage(ctx, id), point: 0, qty: 'vp' }));
+  const sys = byId(snap(ctx).systems, tr.system_id);
+  const U = rUnits(ctx);
+  const len = U.length || 'in';
+  const method = METHODS[tr.method] || tr.method;
+  const duct = tr.shape === 'round'
+    ? `Round duct ${tr.diameter} ${len} · ${method} · ${tr.diameters} diameters × ${tr.points_per_diameter} points`
+    : `Rectangular duct ${tr.width} × ${tr.height} ${len} · ${method} · ${tr.points_h} lines × ${tr.points_w} points`;
+  const where = sys && !String(tr.location).startsWith(sys.tag) ? [sys.tag, tr.location].filter(Boolean).join(' · ') : tr.location;
+  put(root, header(`Traverse ${tr.tag}`, where), h('p', { class: 'scr-duct', 'data-test': 'traverse-duct' }, duct),
+    sys && sys.kind === 'rooftop_unit' && caution('roof'));
+
+  const promptBox = h('div', { class: 'card' });
+  const gridBox = h('div', { class: 'card scr-gridbox' });
+  const pendingBox = h('div');
+  const resultBox = h('div');
+  const planeBox = h('div', { class: 'card' });
+  const stageName = () => (st.stage === 'final' ? 'final' : 'as found');
+
+  const refresh = () => {
+    const res = byId(results(ctx).traverses, id);
+    const states = pointStates(ctx, st, tr, res);
+    if (states.length && !states.some((p) => p.point === st.point)) st.point = nextUnread(states, states.length);
+    drawPrompt(states);
+    fill(gridBox, states.length
+      ? grid(tr, states, st.point, (n) => { st.point = n; refresh(); })
+      : h('p', { class: 'hint' }, 'The point positions come from the server; they show once it has answered.'),
+    h('p', { class: 'scr-legend' }, `● read   ◍ waiting to send   ○ not read   ◎ this point · velocities in ${U.velocity || ''}`));
+    fill(pendingBox, pendingView(ctx, st));
+    fill(resultBox, resultCard('traverse-result', res && res.status, res, () => [
+      h('div', { class: 'scr-status' }, badge(res.status), ` ${res.points_read} of ${res.points_total} points (${res.stage === 'final' ? 'final' : 'as found'})`),
+      row('Flow', num(res.flow, 0, U.air_flow), 'traverse-flow'),
+      sys && sys.design && sys.design.airflow > 0 && row('Design', num(sys.design.airflow, 0, U.air_flow)),
+      tolerance(res.tolerance, U.air_flow),
+      row('Mean velocity', num(res.mean_velocity, 0, U.velocity), 'traverse-velocity'),
+      row('Area', num(res.area, U.system === 'si' ? 3 : 2, U.area)),
+      row('Air density', `${num(res.density, 4, U.density)} · ${DENSITY[res.density_source] || res.density_source}`),
+      messages(res)]));
+  };
+
+  const drawPrompt = (states) => {
+    const p = states.find((x) => x.point === st.point);
+    const qsel = h('select', { 'data-test': 'traverse-quantity' },
+      h('option', { value: 'vp' }, 'velocity pressure (pitot tube)'), h('option', { value: 'velocity' }, 'velocity (anemometer)'));
+    qsel.value = st.qty;
+    qsel.addEventListener('change', () => { st.qty = qsel.value; refresh(); });
+    const f = field(ctx, st, { test: 'reading-value', label: st.qty === 'vp' ? 'Velocity pressure' : 'Velocity', kind: 'traverse', qty: st.qty, point: st.point, inst: 'duct_pressure' });
+    const note = noteLine('traverse-note');
+    const save = saveButton('reading-save', p ? `Save point ${p.point}` : 'Save', async () => {
+      const { items, bad } = collect([f]);
+      if (!p || bad || !items.length) { note.textContent = bad ? 'That is not a number.' : 'Type the reading first.'; return; }
+      items[0].supersedes = p.stored ? p.readingId : ''; // a re-read replaces the earlier reading
+      await post(ctx, st, 'traverse', id, items);
+      st.point = nextUnread(pointStates(ctx, st, tr, byId(results(ctx).traverses, id)), p.point);
+      refresh();
+      // Keep the number pad up for the next point.
+      const next = promptBox.querySelector('[data-test=reading-value]');
+      if (next) next.focus({ preventScroll: true });
+    });
+    f.input.addEventListener('keydown', (e) => { if (e.key === 'Enter') { e.preventDefault(); save.click(); } });
+    const step = (d) => { if (states.length) { st.point = ((st.point - 1 + d + states.length) % states.length) + 1; refresh(); } };
+    const stepBtn = (test, text, d) => h('button', { type: 'button', class: 'btn secondary', 'data-test': test, on: { click: () => step(d) } }, text);
+    fill(promptBox,
+      h('p', { class: 'scr-prompt', 'data-test': 'traverse-point', 'data-point': String(p ? p.point : 0) }, p ? pointWords(p, len) : 'No point positions yet.'),
+      p && p.stored && h('p', { class: 'hint' }, `Read ${asEntered(p.stored.value)} ${unitLabel(ctx, p.stored.unit)}; saving again replaces it.`),
+      h('p', { class: 'hint', 'data-test': 'traverse-progress' }, `${states.filter((x) => x.read).length} of ${states.length} points read (${stageName()}).`),
+      h('label', { class: 'scr-pick' }, h('span', { class: 'scr-pick-label' }, 'Reading'), qsel),
+      f.el,
+      h('div', { class: 'scr-actions' }, save),
+      h('div', { class: 'scr-actions' }, stepBtn('point-prev', '‹ Previous', -1), stepBtn('point-next', 'Next ›', 1)),
+      note);
+  };
+
+  // Air state and static at the plane: the server takes the density from them.
+  const drawPlane = () => {
+    const f = (qty, label, inst) => field(ctx, st, { test: `q-${qty}`, label, kind: 'traverse', qty, inst, hint: nowHint(ctx, id, qty, 0, st.stage) });
+    const fs = [f('air_db', 'Air dry bulb', 'air_state'), f('air_wb', 'Wet bulb', 'air_state'), f('air_rh', 'or RH', 'air_state'), f('static', 'Static pressure', 'duct_pressure')];
+    const note = noteLine('plane-note', st);
+    fill(planeBox, h('h2', {}, 'At the plane'),
+      h('p', { class: 'hint' }, 'Dry bulb with wet bulb or RH gives the air density; without them the server uses standard air.'),
+      h('div', { class: 'scr-picks' }, instrumentSelect(ctx, st, 'air_state', ['psychrometer', 'hygrometer', 'thermometer'], { label: 'Air instrument', test: 'instrument-air' })),
+      h('div', { class: 'form-grid' }, fs.map((x) => x.el)),
+      saveRow(ctx, st, { test: 'plane-save', text: 'Save plane readings', kind: 'traverse', id, fs, note, done: () => { drawPlane(); fill(pendingBox, pendingView(ctx, st)); } }),
+      note);
+  };
+
+  const picks = h('div', { class: 'scr-picks' }, stageSelect(st, () => { refresh(); drawPlane(); }),
+    instrumentSelect(ctx, st, 'duct_pressure', ['manometer', 'anemometer']));
+  drawPlane();
+  refresh();
+  put(root, h('div', { class: 'cols' }, h('div', {}, picks, promptBox, pendingBox, gridBox), h('div', {}, resultBox, planeBox)));
+  return root;
+}

@@ -1,0 +1,81 @@
+// Water test screen: a coil or circuit read with a balancing valve (Cv and ΔP)
+// or a flow meter, and its entering and leaving water temperatures. Flow,
+// capacity and the air/water agreement come from the server.
+import { h, caution } from '../ui.js';
+import {
+  screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, pendingView, badge, row, num,
+  tolerance, messages, header, noteLine, nowHint, defaultStage, missingList, jobUnits, put, fill, saveRow, resultCard, notFound,
+} from './entry.js';
+
+const FLUIDS = { water: 'water', pg: 'propylene glycol', eg: 'ethylene glycol' };
+const WORDS = { dp: 'the valve ΔP', flow: 'the meter flow', enter_temp: 'entering water temperature', leave_temp: 'leaving water temperature' };
+
+export function render(ctx) {
+  const id = ctx.params.id;
+  const wt = byId(snap(ctx).water_tests, id);
+  const root = h('section', { class: 'scr', 'data-test': 'water-screen', 'data-tag': wt ? wt.tag : '' });
+  if (!wt) return notFound(root, 'Water test');
+  const st = screenState(`water:${ctx.jobId}:${id}`, () => ({ stage: defaultStage(ctx, id) }));
+  const sys = byId(snap(ctx).systems, wt.system_id);
+  const U = rUnits(ctx);
+  const si = jobUnits(ctx) === 'si';
+  const res = byId(results(ctx).water_tests, id);
+  const linked = wt.capacity_test_id ? byId(snap(ctx).capacity_tests, wt.capacity_test_id) : null;
+  const valve = wt.flow_source === 'valve';
+  const fluid = wt.fluid && wt.fluid !== 'water' ? `${FLUIDS[wt.fluid] || wt.fluid}, ${wt.concentration} % by volume` : 'water';
+  // Hot: the results show water above about 120 °F (49 °C), or a heating coil.
+  const lim = si ? 49 : 120;
+  const hot = res && ((res.capacity && res.capacity.process === 'heating') || res.enter_temp > lim || res.leave_temp > lim);
+
+  put(root, header(`Water test ${wt.tag}`, sys ? [sys.tag, sys.name].filter(Boolean).join(' · ') : ''),
+    // A short caution always; the full one once the water shows hot.
+    hot ? [caution('hot_water'), h('p', { class: 'hint', 'data-test': 'hot-water' },
+      'This water is hot enough to scald: let the system cool where the work allows, or wear the PPE the site safety plan requires.')]
+      : h('aside', { class: 'caution caution-short', role: 'note', 'data-test': 'caution', 'data-kind': 'hot_water_short' },
+        h('strong', {}, '⚠ Piping: '), 'lines and test ports can be hot and under pressure; open ports slowly and follow the site safety plan.'),
+    h('div', { class: 'scr-duct', 'data-test': 'water-source' },
+      h('div', {}, valve ? `Balancing valve, ${si ? 'Kv' : 'Cv'} ${wt.valve_cv}: read the ΔP across it` : 'Flow meter: read the flow'),
+      h('div', {}, `Fluid: ${fluid} · design ${num(wt.design_flow, 1, U.water_flow)}`),
+      linked && h('div', {}, `Air side: capacity test ${linked.tag}`)));
+
+  const formBox = h('div', { class: 'card' });
+  const pendingBox = h('div', {}, pendingView(ctx, st));
+  const drawForm = () => {
+    const f = (test, label, qty, inst) => field(ctx, st, { test, label, kind: 'water_test', qty, hint: nowHint(ctx, id, qty, 0, st.stage), inst });
+    const fs = [valve ? f('q-dp', 'Valve ΔP', 'dp', 'hydronic') : f('q-flow', 'Meter flow', 'flow', 'hydronic'),
+      f('q-enter_temp', 'Entering water', 'enter_temp', 'water_temp'), f('q-leave_temp', 'Leaving water', 'leave_temp', 'water_temp')];
+    const note = noteLine('water-note', st);
+    fill(formBox,
+      h('div', { class: 'scr-picks' }, stageSelect(st, drawForm),
+        instrumentSelect(ctx, st, 'hydronic', ['hydronic_meter', 'flow_meter'], { label: valve ? 'ΔP instrument' : 'Flow instrument' })),
+      h('div', { class: 'form-grid' }, fs[0].el),
+      h('div', { class: 'scr-picks' }, instrumentSelect(ctx, st, 'water_temp', ['thermometer', 'hydronic_meter'], { label: 'Thermometer', test: 'instrument-temp' })),
+      h('div', { class: 'form-grid' }, fs[1].el, fs[2].el),
+      saveRow(ctx, st, { test: 'water-save', kind: 'water_test', id, fs, note, done: () => { drawForm(); fill(pendingBox, pendingView(ctx, st)); } }),
+      note);
+  };
+  drawForm();
+
+  const result = resultCard('water-result', res && res.status, res, () => {
+    const c = res.capacity, a = res.air_side, t = U.temperature;
+    return [
+      h('div', { class: 'scr-status' }, badge(res.status)),
+      res.dp !== undefined && row('Valve ΔP', num(res.dp, 2, U.water_pressure)),
+      row('Flow', num(res.flow, 1, U.water_flow), 'water-flow'),
+      row('Design', num(res.design_flow, 1, U.water_flow)),
+      tolerance(res.tolerance, U.water_flow, 1),
+      row('Entering / leaving', `${num(res.enter_temp, 1, t)} / ${num(res.leave_temp, 1, t)}`),
+      c && [row(`Capacity (${c.process})`, num(c.capacity, 0, U.power), 'water-capacity'), row('Mean water temperature', num(c.mean_temp, 1, t))],
+      res.specific_gravity !== undefined && row('Specific gravity used', num(res.specific_gravity, 3)),
+      a && h('div', { class: 'scr-agree', 'data-test': 'water-agreement' },
+        h('h3', {}, 'Air side and water side'),
+        row('Air side (capacity test)', num(a.air_total, 0, U.power)),
+        row('Water side', num(a.water_capacity, 0, U.power)),
+        row('Difference', `${num(a.difference_pct, 1)} %`, 'water-difference'),
+        h('p', { class: 'hint' }, a.note || 'The server finds the two sides in agreement.')),
+      missingList(res.missing, WORDS), messages(res)];
+  });
+
+  put(root, h('div', { class: 'cols' }, h('div', {}, formBox, pendingBox), h('div', {}, result)));
+  return root;
+}
