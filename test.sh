@@ -17,6 +17,9 @@ missing=()
 "$SYSPY" -c 'import iapws' >/dev/null 2>&1 || missing+=(python3-iapws)
 command -v node >/dev/null 2>&1 || missing+=(nodejs)
 command -v npm >/dev/null 2>&1 || missing+=(npm)
+# The browser tests drive Debian's Chromium (server/browser_test.go); under CI
+# they fail rather than skip without it.
+[ -x /usr/bin/chromium ] || missing+=(chromium)
 if [ "${#missing[@]}" -gt 0 ]; then
 	if [ "$(id -u)" -ne 0 ]; then
 		echo "test.sh: missing ${missing[*]}; run as root, or: sudo apt-get install -y ${missing[*]}" >&2
