@@ -1,10 +1,14 @@
 // Service worker: keeps the app's own files so it loads with no connection.
-// Files are served from the cache at once and refreshed from the network for
-// the next load. API answers are never cached here; the app keeps job data
-// in IndexedDB. Browsers run a service worker only in a secure context
-// (https, or localhost).
+// Files are served from the cache only; a page load (a navigation) refreshes
+// the whole list from the network in the background for the next load, at
+// most once a minute. So the browser asking again for a file (Chromium
+// fetches the icon on every change of the #hash) costs no request. API
+// answers are never cached here; the app keeps job data in IndexedDB.
+// Browsers run a service worker only in a secure context (https, or localhost).
 
-const VERSION = 'fieldtab-app-v1'; // bump when the list or the caching changes
+const VERSION = 'fieldtab-app-v2'; // bump when the list or the caching changes
+const REFRESH_MS = 60000;
+let refreshedAt = 0; // in memory: a restarted worker refreshes on the next load
 
 const SHELL = [
   './', // index.html (the server redirects /index.html to /)
@@ -34,18 +38,21 @@ const SHELL = [
   'js/screens/entry.js',
 ];
 
+// refresh fetches every file of the list, each on its own so a file missing
+// on the server (or no connection) does not stop the rest.
+async function refresh() {
+  refreshedAt = Date.now();
+  const cache = await caches.open(VERSION);
+  await Promise.all(SHELL.map(async (path) => {
+    try {
+      const res = await fetch(new Request(path, { cache: 'no-cache' }));
+      if (res.ok) await cache.put(path, res);
+    } catch { /* offline: the kept copy stays */ }
+  }));
+}
+
 self.addEventListener('install', (event) => {
-  event.waitUntil((async () => {
-    const cache = await caches.open(VERSION);
-    // One by one, so a file missing on the server does not stop the rest.
-    await Promise.all(SHELL.map(async (path) => {
-      try {
-        const res = await fetch(new Request(path, { cache: 'no-cache' }));
-        if (res.ok) await cache.put(path, res);
-      } catch { /* offline during install: the next visit fills it */ }
-    }));
-    await self.skipWaiting();
-  })());
+  event.waitUntil(refresh().then(() => self.skipWaiting()));
 });
 
 self.addEventListener('activate', (event) => {
@@ -66,18 +73,15 @@ self.addEventListener('fetch', (event) => {
 async function cacheFirst(event, req, url) {
   const cache = await caches.open(VERSION);
   // Any page address is the app (the router works on the #hash).
-  const key = req.mode === 'navigate' ? './' : url.pathname + url.search;
-  const hit = await cache.match(key, { ignoreSearch: req.mode === 'navigate' });
-  const fresh = fetch(req, { cache: 'no-cache' }).then(async (res) => {
+  const nav = req.mode === 'navigate';
+  const key = nav ? './' : url.pathname + url.search;
+  if (nav && Date.now() - refreshedAt > REFRESH_MS) event.waitUntil(refresh());
+  const hit = await cache.match(key, { ignoreSearch: nav });
+  if (hit) return hit;
+  try {
+    const res = await fetch(req, { cache: 'no-cache' });
     if (res.ok && res.type === 'basic') await cache.put(key, res.clone());
     return res;
-  });
-  if (hit) {
-    event.waitUntil(fresh.catch(() => {})); // refresh for next time
-    return hit;
-  }
-  try {
-    return await fresh;
   } catch {
     return new Response('fieldtab is offline and this file was not kept.', { status: 503, headers: { 'Content-Type': 'text/plain' } });
   }

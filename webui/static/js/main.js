@@ -77,11 +77,12 @@ function paintStatus() {
   if (jobId) syncEl.setAttribute('href', `#/job/${encodeURIComponent(jobId)}/outbox`);
   const joined = api.hasToken();
   if (!joined) syncEl.dataset.online = 'false';
-  const parts = [!joined ? '○ not joined' : s.online ? '● online' : '○ offline'];
+  const parts = [!joined ? '○ not joined' : s.online ? '● online' : s.network ? '○ server unreachable' : '○ offline'];
   if (s.waiting) parts.push(`${s.waiting} waiting`);
   if (s.rejected) parts.push(`${s.rejected} rejected`);
   if (!s.waiting && !s.rejected) parts.push(s.sent ? `${s.sent} sent` : 'all sent');
-  parts.push(`last contact ${ui.timeText(s.lastContact)}`);
+  // Out of touch, how long ago counts more than the clock time.
+  parts.push(s.online || !s.lastContact ? `last contact ${ui.timeText(s.lastContact)}` : `last reached ${ui.timeText(s.lastContact)} (${ui.agoText(s.lastContact)})`);
   syncEl.textContent = parts.join(' · ');
   syncEl.title = s.error ? `Last problem: ${s.error}` : 'Open the outbox';
 }
@@ -212,7 +213,7 @@ function ctxFor(r, view) {
     replace: (hash) => { location.replace(hash); },
     rerender: () => render('update'),
     notice: () => { const n = notice; notice = ''; return n; },
-    outbox, sync, api, store, ui,
+    outbox, sync, api, store,
   };
 }
 
@@ -316,7 +317,7 @@ async function boot() {
   await q.load();
   q.onChange(scheduleUpdate);
   sync.onUpdate(() => scheduleUpdate());
-  sync.onStatus(paintStatus);
+  sync.onStatus((s) => { paintStatus(); if (s.online) q.ensure(); });
   outbox.onChange(() => { paintStatus(); scheduleUpdate(); });
   window.addEventListener('hashchange', onRoute);
   onRoute();

@@ -32,12 +32,30 @@ const FALLBACK_LABELS = {
 };
 
 let table = null; // {quantities:[…], unit_labels:{…}}
+let fetched = false; // the server's table came in this run
+let asking = null;
 let index = new Map();
 const changeFns = new Set();
 
 function setTable(t) {
   table = t;
   index = new Map((t.quantities || []).map((s) => [`${s.subject_kind}/${s.quantity}`, s]));
+}
+
+async function fetchTable() {
+  try {
+    const t = await api.get('/quantities', { timeout: 8000 });
+    if (!t || !Array.isArray(t.quantities)) return;
+    fetched = true;
+    const changed = JSON.stringify(t) !== JSON.stringify(table);
+    setTable(t);
+    if (changed) {
+      await store.setMeta('quantities', t);
+      for (const fn of changeFns) fn();
+    }
+  } catch {
+    // Offline: the kept table (or the fallback) covers it until the server answers.
+  }
 }
 
 export const q = {
@@ -51,20 +69,13 @@ export const q = {
 
   async refresh() {
     if (!api.hasToken()) return; // asked again after joining
-    try {
-      const t = await api.get('/quantities', { timeout: 8000 });
-      if (t && Array.isArray(t.quantities)) {
-        const changed = JSON.stringify(t) !== JSON.stringify(table);
-        setTable(t);
-        if (changed) {
-          await store.setMeta('quantities', t);
-          for (const fn of changeFns) fn();
-        }
-      }
-    } catch {
-      // Offline, or a server without /quantities: the kept table or the fallback covers it.
-    }
+    if (!asking) asking = fetchTable().finally(() => { asking = null; });
+    await asking;
   },
+
+  // ensure: the server's table once a run; main asks whenever the server
+  // answers, so a first try that failed is made good.
+  ensure() { if (!fetched) this.refresh(); },
 
   onChange(fn) { changeFns.add(fn); },
 

@@ -12,6 +12,8 @@ const CONFIRM_MS = 1500;    // sooner while an acknowledged entry awaits the ser
 const BATCH = 100;          // readings per request
 const BACKOFF_MIN = 1000;
 const BACKOFF_MAX = 8000;    // a LAN retry is cheap; a phone should not sit on readings for long
+const BEAT_MS = 3000;       // between pulls, a tiny probe so the indicator says within seconds that the server is gone
+const BEAT_TIMEOUT = 2500;  // a laptop that went to sleep does not refuse, it just never answers
 
 let jobId = null;
 let view = null;
@@ -22,6 +24,7 @@ let again = false;
 let backoff = 0;
 let online = typeof navigator === 'undefined' ? true : navigator.onLine;
 let lastContact = null;
+let lastContactMs = 0;
 let lastError = '';
 let generation = 0;        // bumps on job switch so a late answer for the old job is dropped
 
@@ -44,6 +47,7 @@ let contactSaved = 0;
 function contact() {
   const wasOnline = online;
   lastContact = new Date().toISOString();
+  lastContactMs = Date.now();
   online = navigator.onLine !== false;
   lastError = '';
   // Kept for the indicator after an offline reload; once in a while is enough.
@@ -235,8 +239,10 @@ export const sync = {
 
   status() {
     const c = outbox.counts(jobId || undefined);
+    const network = typeof navigator === 'undefined' || navigator.onLine !== false;
     return {
-      online: online && (typeof navigator === 'undefined' || navigator.onLine !== false),
+      online: online && network,
+      network, // false: the device itself has no network (else the server is what is unreachable)
       waiting: c.waiting,
       sent: c.sent,
       rejected: c.rejected,
@@ -246,6 +252,24 @@ export const sync = {
   },
 };
 
+// beat probes the server when nothing else has reached it lately. A failed
+// probe marks it unreachable at once; an answer after a failure sends what
+// waits without sitting out the retry backoff.
+async function beat() {
+  if (document.visibilityState === 'hidden' || !api.hasToken()) return;
+  if (navigator.onLine === false || Date.now() - lastContactMs < 1000) return;
+  const wasOnline = online;
+  try {
+    await api.get('/health', { noToken: true, timeout: BEAT_TIMEOUT });
+    if (!wasOnline) { backoff = 0; sync.kick(); }
+  } catch (e) {
+    if (e.status !== 0 || Date.now() - lastContactMs < BEAT_MS) return; // answered, or something else got through meanwhile
+    online = false;
+    lastError = 'The server does not answer.';
+    emitStatus(); // also every beat while it is gone, so "how long ago" stays true
+  }
+}
+
 outbox.setKick(() => sync.kick());
 outbox.onChange(emitStatus);
 
@@ -253,4 +277,5 @@ if (typeof window !== 'undefined') {
   window.addEventListener('online', () => { online = true; backoff = 0; emitStatus(); sync.kick(); });
   window.addEventListener('offline', () => { online = false; emitStatus(); });
   document.addEventListener('visibilitychange', () => { if (document.visibilityState === 'visible') sync.kick(); });
+  setInterval(beat, BEAT_MS);
 }

@@ -48,6 +48,11 @@ export function clear(el) {
   return el;
 }
 
+// put / fill append or replace children as h() takes them (null and false
+// skipped: the DOM's own append would show them as the text "null").
+export const put = (el, ...children) => { append(el, children); return el; };
+export const fill = (el, ...children) => put(clear(el), ...children);
+
 // fmt(1234.5) → "1,235"; fmt(null) → "—". Without digits, the digits follow
 // the size of the number (about three significant figures, at least whole units).
 export function fmt(value, digits) {
@@ -114,25 +119,30 @@ export function statusBadge(status, text) {
     h('span', { class: 'badge-sym', 'aria-hidden': 'true' }, sym), ' ', text || word);
 }
 
-// Cautions in plain words. They defer to the documents that govern the site.
-const DEFER = 'The project specification, local codes and the site safety plan govern; follow them.';
+// Cautions in plain words, one line each (a tap opens the rest) so they do
+// not push the entry fields off a phone's screen. They defer to the
+// documents and the people that govern the site.
+const DEFER = 'The project specification, local codes, the site safety plan and licensed practice govern; where they say more, follow them.';
 const CAUTIONS = {
-  electrical: ['Live electrical readings',
+  electrical: ['Live electrical', 'qualified, PPE',
     'Volts and amps on live circuits are taken only by a qualified person wearing suitable PPE, with the panel or disconnect cover opened as the site allows.'],
-  roof: ['Rooftop work',
+  roof: ['Rooftop', 'use fall protection',
     'Use the fall protection the site requires, keep clear of roof edges, hatches and skylights, and do not carry instruments up a ladder in your hands.'],
-  rotating: ['Belts and sheaves',
+  rotating: ['Belts and sheaves', 'lock out first',
     'Lock out and tag out the unit before touching belts, sheaves or guards; rotating equipment can start without warning. Put the guards back before restarting.'],
-  hot_water: ['Hot water and steam',
-    'Piping, valves and test ports can be hot enough to burn and under pressure. Wear gloves and eye protection and open test ports slowly.'],
-  ladder: ['Ladders',
-    'Set the ladder on firm ground, keep three points of contact and keep one hand for the ladder; rest the hood or meter, do not reach.'],
+  hot_water: ['Hot water', 'can scald, open slowly',
+    'Hot water and steam piping, valves and test ports can burn and are under pressure. Let the system cool where the work allows, wear gloves and eye protection, and open test ports slowly.'],
+  piping: ['Piping', 'under pressure, open slowly',
+    'Lines and test ports are under pressure and may be hot. Wear eye protection and gloves and open test ports slowly.'],
+  ladder: ['Ladder', 'three points of contact',
+    'Set the ladder on firm ground, keep three points of contact and one hand for the ladder; rest the hood or meter, do not reach.'],
 };
 
 export function caution(kind) {
-  const [title, text] = CAUTIONS[kind] || ['Caution', ''];
-  return h('aside', { class: 'caution', role: 'note', 'data-test': 'caution', 'data-kind': kind },
-    h('strong', {}, '⚠ ', title, ': '), text, ' ', DEFER);
+  const [title, short, text] = CAUTIONS[kind] || ['Caution', '', ''];
+  return h('details', { class: 'caution', 'data-test': 'caution', 'data-kind': kind },
+    h('summary', {}, h('strong', {}, '⚠ ', title, ': '), short),
+    h('p', {}, text, ' ', DEFER));
 }
 
 let fieldSeq = 0;
@@ -173,13 +183,14 @@ export function button(text, attrs, onClick) {
   return h('button', { type: 'button', class: 'btn', ...attrs, on: { click: onClick } }, text);
 }
 
+// jobHash(ctx, 'outlet', id) → "#/job/JOB/outlet/ID", each part escaped.
+export function jobHash(ctx, ...parts) {
+  return ['#/job', ctx.jobId, ...parts].map((p, i) => (i ? encodeURIComponent(p) : p)).join('/');
+}
+
 // link(text, hash, attrs) → an <a> for the router.
 export function link(text, hash, attrs) {
   return h('a', { href: hash, ...attrs }, text);
-}
-
-export function section(title, ...children) {
-  return h('section', { class: 'card' }, title ? h('h2', {}, title) : null, ...children);
 }
 
 // clean(el): forget that the user changed a field (after Save), so the next
@@ -193,6 +204,15 @@ export function timeText(t) {
   const d = new Date(t);
   if (Number.isNaN(d.getTime())) return String(t);
   return d.toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit' });
+}
+
+// agoText(t) → "40 s ago", "3 min ago", "2 h ago".
+export function agoText(t) {
+  const s = Math.max(0, Math.round((Date.now() - new Date(t).getTime()) / 1000));
+  if (!Number.isFinite(s)) return '';
+  if (s < 60) return `${s} s ago`;
+  if (s < 3600) return `${Math.floor(s / 60)} min ago`;
+  return `${Math.floor(s / 3600)} h ago`;
 }
 
 export function dateTimeText(t) {

@@ -5,7 +5,7 @@ import { h, caution } from '../ui.js';
 import { psychroChart, chartRange, loadChart, cachedChart } from '../chart.js';
 import {
   screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, pendingView, badge, row, num,
-  messages, header, noteLine, nowHint, defaultStage, missingList, put, fill, saveRow, resultCard, notFound,
+  messages, header, noteLine, nowHint, missingList, put, fill, saveRow, resultCard, notFound,
 } from './entry.js';
 
 const WORDS = {
@@ -21,7 +21,7 @@ export function render(ctx) {
   const ct = byId(snap(ctx).capacity_tests, id);
   const root = h('section', { class: 'scr', 'data-test': 'capacity-screen', 'data-tag': ct ? ct.tag : '' });
   if (!ct) return notFound(root, 'Capacity test');
-  const st = screenState(`capacity:${ctx.jobId}:${id}`, () => ({ stage: defaultStage(ctx, id) }));
+  const st = screenState(ctx, 'capacity_test', id);
   const sys = byId(snap(ctx).systems, ct.system_id);
   const trv = ct.traverse_id ? byId(snap(ctx).traverses, ct.traverse_id) : null;
   const U = rUnits(ctx);

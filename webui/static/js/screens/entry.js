@@ -1,22 +1,19 @@
 // Shared parts of the test screens (traverse, capacity, water, fan): entries
 // that survive a re-render, posting through the outbox, the entries still
 // waiting, and result rows. No engineering here: every figure is the server's.
-import { h, fmt, statusBadge, numberField, parseNumber } from '../ui.js';
+import { h, fmt, statusBadge, numberField, parseNumber, put, kindWord, jobHash } from '../ui.js';
 import { store } from '../store.js';
 
-// Per-screen state, kept while the app is open (sync updates rebuild screens).
+// Per-screen state, kept while the app is open (sync updates rebuild screens):
+// what is typed, the stage and instrument picks, the subject it is about.
 const states = new Map();
-export function screenState(key, init) {
-  if (!states.has(key)) states.set(key, { values: {}, pending: [], inst: {}, ...init() });
+export function screenState(ctx, kind, id, extra) {
+  const key = `${kind}:${ctx.jobId}:${id}`;
+  if (!states.has(key)) states.set(key, { kind, id, values: {}, inst: {}, stage: defaultStage(ctx, kind, id), ...extra });
   return states.get(key);
 }
 
-// put / fill append or replace children, skipping null and false (the DOM's
-// own append would show them as the text "null").
-const kids = (list) => list.flat(Infinity).filter((c) => c !== null && c !== undefined && c !== false && c !== true)
-  .map((c) => (c instanceof Node ? c : document.createTextNode(String(c))));
-export const put = (el, ...c) => { el.append(...kids(c)); return el; };
-export const fill = (el, ...c) => { el.replaceChildren(...kids(c)); return el; };
+export { put, fill } from '../ui.js';
 
 export const jobUnits = (ctx) => (ctx.view.job && ctx.view.job.units) || 'ip';
 export const snap = (ctx) => ctx.view.snapshot || {};
@@ -28,7 +25,6 @@ export const unitLabel = (ctx, code) => ctx.q.label(code);
 // asEntered: a typed value without float noise (0.125, not 0.12499…).
 export const asEntered = (v) => (Number.isFinite(v) ? String(Number(v.toPrecision(6))) : '—');
 export const num = (v, digits, unit) => (Number.isFinite(v) ? `${fmt(v, digits)}${unit ? ' ' + unit : ''}` : '—');
-const stageWord = (s) => (s === 'final' ? 'final' : 'as found');
 
 // field: a big numeric entry bound to st.values[test], so what is typed
 // survives this screen redrawing its own parts (main keeps it across its
@@ -49,8 +45,14 @@ export function stageSelect(st, onChange) {
   return pick('Stage', sel);
 }
 
-// defaultStage: final once the subject has a final reading, else as found.
-export const defaultStage = (ctx, id) => ((snap(ctx).readings || []).some((r) => r.subject_id === id && r.stage === 'final') ? 'final' : 'as_found');
+// defaultStage: the stage of the last entry this device holds for the
+// subject (so a reload mid-walk stays on it), else final once the subject has
+// a final reading, else as found.
+function defaultStage(ctx, kind, id) {
+  const mine = ctx.outbox.forSubject(ctx.jobId, kind, id);
+  if (mine.length) return mine[mine.length - 1].reading.stage;
+  return (snap(ctx).readings || []).some((r) => r.subject_id === id && r.stage === 'final') ? 'final' : 'as_found';
+}
 
 // instrumentSelect: the job's instruments, those of the fitting kinds first.
 // st.inst[group] is the pick for that group's fields. The default is the last
@@ -94,22 +96,17 @@ export function collect(fields) {
 }
 
 // post writes the items to the outbox in one transaction (on disk before it
-// returns), clears their entries and keeps them in st.pending until the
-// server's view has them.
+// returns) and clears their entries.
 export async function post(ctx, st, kind, subjectId, items) {
-  const rows = await ctx.outbox.addMany(ctx.jobId, items.map(({ f, value, supersedes }) => ({
+  await ctx.outbox.addMany(ctx.jobId, items.map(({ f, value, supersedes }) => ({
     subject_kind: kind, subject_id: subjectId, quantity: f.qty, point: f.point, value, unit: f.unit, stage: st.stage,
     instrument_id: st.inst[f.inst] || '', supersedes: supersedes || '', void: false, note: '',
   })));
-  items.forEach(({ f, value }, i) => {
-    let d = ctx.q.describe(kind, f.qty) || f.label;
-    d = d.charAt(0).toUpperCase() + d.slice(1).replace(/ at a traverse point$|, per leg or single$/, '');
-    if (f.point) d += kind === 'system' ? `, leg ${f.point}` : `, point ${f.point}`;
-    st.pending.push({ id: rows[i].id, label: d, value, unit: unitLabel(ctx, f.unit), quantity: f.qty, point: f.point, stage: st.stage });
+  for (const { f } of items) {
     delete st.values[f.test];
     f.input.value = '';
     delete f.input.dataset.dirty;
-  });
+  }
 }
 
 // noteLine: a line beside a Save button; st.msg shows for a few seconds.
@@ -119,29 +116,39 @@ export function noteLine(test, st) {
   return p;
 }
 
-// prune forgets saved entries the server's view now has, and those that left
-// the outbox without reaching it (discarded).
-function prune(ctx, st) {
+// unseen: the subject's entries in the outbox that the server's view does
+// not show yet (waiting, sent but not fetched back, or rejected). The outbox
+// is on disk, so after a reload offline they still show, and still count as read.
+function unseen(ctx, st) {
   const have = new Set((snap(ctx).readings || []).map((r) => r.id));
-  st.pending = st.pending.filter((p) => !have.has(p.id) && ctx.outbox.get(p.id));
+  return ctx.outbox.forSubject(ctx.jobId, st.kind, st.id).filter((e) => !have.has(e.id));
 }
 
+// entryLabel: what a reading is of, e.g. "motor amps, leg 2" (the outbox screen shows it too).
+export function entryLabel(ctx, r) {
+  const d = ctx.q.describe(r.subject_kind, r.quantity).replace(/ at a traverse point$|, per leg or single$/, '');
+  return d + (!r.point ? '' : r.subject_kind === 'system' ? `, leg ${r.point}` : `, point ${r.point}`);
+}
+
+const capital = (t) => t.charAt(0).toUpperCase() + t.slice(1);
+
 export function pendingView(ctx, st) {
-  prune(ctx, st);
+  const list = unseen(ctx, st);
   const box = h('div', { class: 'scr-pending', 'data-test': 'pending' });
-  if (!st.pending.length) return box;
+  if (!list.length) return box;
   const say = { waiting: 'waiting to send', sent: 'sent, result coming' };
-  return put(box, h('h3', {}, 'Saved on this device'), h('ul', { class: 'scr-pending-list' }, st.pending.map((p) => {
-    const e = ctx.outbox.get(p.id);
-    return h('li', { class: `pending${e.state === 'rejected' ? ' rejected' : ''}`, 'data-test': 'pending-entry', 'data-state': e.state, 'data-quantity': p.quantity, 'data-point': String(p.point) },
-      `${p.label}: ${asEntered(p.value)} ${p.unit} `, h('strong', {}, say[e.state] || `rejected: ${e.reason || 'see the outbox'}`));
+  return put(box, h('h3', {}, 'Saved on this device'), h('ul', { class: 'scr-pending-list' }, list.map((e) => {
+    const r = e.reading;
+    return h('li', { class: `pending${e.state === 'rejected' ? ' rejected' : ''}`, 'data-test': 'pending-entry', 'data-state': e.state, 'data-quantity': r.quantity, 'data-point': String(r.point) },
+      `${capital(entryLabel(ctx, r))} (${kindWord(r.stage)}): ${asEntered(r.value)} ${unitLabel(ctx, r.unit)} `,
+      h('strong', {}, say[e.state] || `rejected: ${e.reason || 'see the outbox'}`),
+      e.state === 'rejected' && [' ', h('a', { class: 'btn danger', href: jobHash(ctx, 'outbox') }, 'Fix or discard it in the outbox')]);
   })));
 }
 
 // isPending: an entry saved here for this point and stage, not refused, not yet in the view.
 export function isPending(ctx, st, qtys, point, stage) {
-  prune(ctx, st);
-  return st.pending.some((p) => qtys.includes(p.quantity) && p.point === point && p.stage === stage && ctx.outbox.get(p.id).state !== 'rejected');
+  return unseen(ctx, st).some((e) => qtys.includes(e.reading.quantity) && e.reading.point === point && e.reading.stage === stage && e.state !== 'rejected');
 }
 
 // latest: the current reading at a point and stage ('' any) that the server
@@ -158,7 +165,7 @@ export function latest(ctx, id, qtys, point, stage) {
 // nowHint: "now 72 °F (final)", the stored reading a new entry would follow.
 export function nowHint(ctx, id, qty, point, stage) {
   const r = latest(ctx, id, [qty], point, stage) || latest(ctx, id, [qty], point, '');
-  return r && Number.isFinite(r.value) ? `now ${asEntered(r.value)} ${unitLabel(ctx, r.unit)} (${stageWord(r.stage)})` : '';
+  return r && Number.isFinite(r.value) ? `now ${asEntered(r.value)} ${unitLabel(ctx, r.unit)} (${kindWord(r.stage)})` : '';
 }
 
 // Status words beside the colour.

@@ -4,7 +4,7 @@
 import { h, caution, kindWord } from '../ui.js';
 import {
   screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, pendingView, badge, row, num,
-  tolerance, messages, header, noteLine, nowHint, defaultStage, put, fill, unitLabel, unitFor, saveRow, resultCard, notFound,
+  tolerance, messages, header, noteLine, nowHint, put, fill, unitLabel, unitFor, saveRow, resultCard, notFound,
 } from './entry.js';
 
 // The instrument group of each reading (sheaves are read with a gauge: no instrument record).
@@ -19,17 +19,18 @@ export function render(ctx) {
   const sys = byId(snap(ctx).systems, id);
   const root = h('section', { class: 'scr', 'data-test': 'fan-screen', 'data-tag': sys ? sys.tag : '' });
   if (!sys) return notFound(root, 'System');
-  const st = screenState(`fan:${ctx.jobId}:${id}`, () => ({ stage: defaultStage(ctx, id) }));
+  const st = screenState(ctx, 'system', id);
   const U = rUnits(ctx);
   const d = sys.design || {};
+  const dg = U.system === 'si' ? 0 : 2; // Pa and mm are whole; in. w.g. and inches take two decimals
   const phases = d.phase === 1 ? 1 : 3;
 
   put(root, header(`Fan and motor ${sys.tag}`, [kindWord(sys.kind), sys.name].filter(Boolean).join(' · ')),
-    // Open each time the screen opens; a tap folds them away while working.
-    h('details', { class: 'scr-cautions', open: true }, h('summary', {}, `Safety: live electrical, belts and sheaves${sys.kind === 'rooftop_unit' ? ', rooftop' : ''}`),
-      caution('electrical'), caution('rotating'), sys.kind === 'rooftop_unit' && caution('roof')),
+    // Each caution sits by the work it is about: roof here, live electrical by
+    // the volts and amps, lockout by the sheaves.
+    sys.kind === 'rooftop_unit' && caution('roof'),
     h('p', { class: 'scr-duct', 'data-test': 'fan-design' },
-      `Design ${num(d.airflow, 0, U.air_flow)} at ${num(d.external_static, 2, U.duct_pressure)} external · fan ${num(d.fan_rpm, 0, 'rpm')} · motor ${num(d.motor_hp, 1, 'hp')}, ${num(d.motor_rpm, 0, 'rpm')}, ${num(d.fla, 1, 'A')} FLA, ${num(d.volts, 0, 'V')} ${phases === 1 ? 'single' : 'three'} phase`));
+      `Design ${num(d.airflow, 0, U.air_flow)} at ${num(d.external_static, dg, U.duct_pressure)} external · fan ${num(d.fan_rpm, 0, 'rpm')} · motor ${num(d.motor_hp, 1, 'hp')}, ${num(d.motor_rpm, 0, 'rpm')}, ${num(d.fla, 1, 'A')} FLA, ${num(d.volts, 0, 'V')} ${phases === 1 ? 'single' : 'three'} phase`));
 
   const formBox = h('div', { class: 'card' });
   const pendingBox = h('div', {}, pendingView(ctx, st));
@@ -52,12 +53,14 @@ export function render(ctx) {
       h('div', { class: 'scr-picks' }, stageSelect(st, drawForm)),
       group('Speeds', instrumentSelect(ctx, st, 'speed', ['tachometer'], { label: 'Tachometer' }),
         h('div', { class: 'form-grid' }, add('q-fan_rpm', 'Fan', 'fan_rpm'), add('q-motor_rpm', 'Motor', 'motor_rpm'))),
+      caution('electrical'),
       group('Motor volts and amps', instrumentSelect(ctx, st, 'electrical', ['clamp_meter', 'multimeter'], { label: 'Meter', test: 'instrument-electrical' }),
         h('p', { class: 'hint' }, phases === 1 ? 'Single phase: one reading each.' : 'Volts leg to leg, amps on each leg (1 to 3).'),
         legs('volts', 'Volts'), legs('amps', 'Amps'),
         h('div', { class: 'form-grid' }, add('q-power_factor', 'Power factor (if read)', 'power_factor'))),
       group('Static pressures', instrumentSelect(ctx, st, 'duct_pressure', ['manometer'], { label: 'Manometer', test: 'instrument-static' }),
         h('div', { class: 'form-grid' }, STATICS.map(([q, label]) => add(`q-${q}`, label, q)))),
+      caution('rotating'),
       group('Sheave pitch diameters', null,
         h('div', { class: 'form-grid' }, add('q-motor_sheave', 'Motor sheave', 'motor_sheave'), add('q-fan_sheave', 'Fan sheave', 'fan_sheave'))),
       saveRow(ctx, st, { test: 'fan-save', kind: 'system', id, fs, note, done: () => { drawForm(); fill(pendingBox, pendingView(ctx, st)); } }),
@@ -68,7 +71,7 @@ export function render(ctx) {
   const res = byId(results(ctx).systems, id);
   const bad = res && res.errors && res.errors.length > 0;
   const result = resultCard('fan-result', bad ? 'error' : 'computed', res, () => {
-    const legs = (list, unit, dg) => (list && list.length ? `${list.map((l) => `${l.leg ? `L${l.leg} ` : ''}${num(l.value, dg)}`).join(' · ')} ${unit}` : '—');
+    const legs = (list, unit, digits) => (list && list.length ? `${list.map((l) => `${l.leg ? `L${l.leg} ` : ''}${num(l.value, digits)}`).join(' · ')} ${unit}` : '—');
     const pct = (v) => (v === undefined ? '—' : `${num(v, 1)} %`);
     const fl = res.fan_law;
     const kw = (v) => (v === undefined ? 'needs a power factor reading' : num(v, 2, U.electric_power));
@@ -85,14 +88,14 @@ export function render(ctx) {
       row('Voltage imbalance', pct(res.voltage_imbalance_pct), 'fan-vimb'),
       row('Current imbalance', pct(res.current_imbalance_pct), 'fan-aimb'),
       row('Input power', kw(res.input_power_kw), 'fan-kw'),
-      STATICS.filter(([q]) => res.statics && res.statics[q] !== undefined).map(([q, l]) => row(l, num(res.statics[q], 2, U.duct_pressure))),
-      row('Sheaves (motor / fan)', `${num(res.motor_sheave, 2)} / ${num(res.fan_sheave, 2)} ${U.length || ''}`),
+      STATICS.filter(([q]) => res.statics && res.statics[q] !== undefined).map(([q, l]) => row(l, num(res.statics[q], dg, U.duct_pressure))),
+      row('Sheaves (motor / fan)', `${num(res.motor_sheave, dg)} / ${num(res.fan_sheave, dg)} ${U.length || ''}`),
       fl && h('div', { class: 'scr-agree', 'data-test': 'fan-law' },
         h('h3', {}, `To reach design (${num(fl.target_flow, 0, U.air_flow)})`),
         row('Fan speed', num(fl.fan_rpm, 0, 'rpm'), 'fan-law-rpm'),
-        row('External static', num(fl.static_pressure, 2, U.duct_pressure), 'fan-law-static'),
+        row('External static', num(fl.static_pressure, dg, U.duct_pressure), 'fan-law-static'),
         row('Input power', kw(fl.input_power_kw), 'fan-law-power'),
-        row('New motor sheave', num(fl.motor_sheave, 2, U.length), 'fan-law-sheave'),
+        row('New motor sheave', num(fl.motor_sheave, dg, U.length), 'fan-law-sheave'),
         fl.note && h('p', { class: 'hint' }, fl.note)),
       messages(res)];
   });

@@ -2,14 +2,10 @@
 // instruments with their calibration, the findings, the outbox and (for
 // leads) the lead's tools.
 
-import { h, fmt, statusBadge, caution, kindWord, link } from '../ui.js';
+import { h, fmt, statusBadge, statusWord, caution, kindWord, link, jobHash } from '../ui.js';
 
 const FAN_KINDS = new Set(['air_handler', 'rooftop_unit', 'fan']);
 const DONE = new Set(['computed', 'meets', 'short', 'no_expected', 'within', 'low', 'high', 'undetermined']);
-
-function jobHash(ctx, ...parts) {
-  return ['#/job', ctx.jobId, ...parts].map((p, i) => (i ? encodeURIComponent(p) : p)).join('/');
-}
 
 export function progressText(o) {
   const out = (o.low || 0) + (o.high || 0);
@@ -41,7 +37,7 @@ function systemCard(ctx, sys, rec, tests) {
     h('div', { class: 'sys-head' },
       h('span', { class: 'tag' }, sys.tag),
       h('span', { class: 'kindword' }, kindWord(sys.kind)),
-      sys.airflow_tolerance ? h('span', { class: 'badges' }, statusBadge(sys.airflow_tolerance.status, `airflow ${statusWordOf(sys.airflow_tolerance.status)}`)) : null),
+      sys.airflow_tolerance ? h('span', { class: 'badges' }, statusBadge(sys.airflow_tolerance.status, `airflow ${statusWord(sys.airflow_tolerance.status)}`)) : null),
     h('p', { class: 'sub' }, sys.name || (rec && rec.location) || ''),
     o.total ? [
       h('div', { class: `progress${out ? ' has-out' : ''}`, role: 'img', 'aria-label': `${pct}% of outlets read` }, bar),
@@ -59,8 +55,6 @@ function systemCard(ctx, sys, rec, tests) {
       tests.capacity.map((t) => testItem(ctx, t, 'capacity', 'capacity', 'Capacity test')),
       tests.water.map((t) => testItem(ctx, t, 'water', 'water', 'Water test'))) : null);
 }
-
-function statusWordOf(s) { return String(s).replace(/_/g, ' '); }
 
 function instrumentLine(i) {
   let when = '';

@@ -38,5 +38,5 @@ export async function render(ctx) {
           h('span', { class: 'tag' }, j.name),
           h('span', { class: 'room' }, [j.site_address, j.status].filter(Boolean).join(' · ')))))) :
         h('p', {}, 'No jobs yet. The lead creates a job, or imports one, on the laptop running fieldtab.')),
-    h('p', {}, h('a', { href: '#/join' }, 'Join with another code')));
+    h('p', {}, h('a', { class: 'btn secondary', href: '#/join' }, 'Join with another code')));
 }

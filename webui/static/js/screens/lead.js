@@ -4,6 +4,7 @@
 // may not do.
 
 import { h, fmt, button, select, field, message, clear, kindWord, parseNumber, dateTimeText, timeText } from '../ui.js';
+import { enc } from '../api.js';
 
 // Kept across re-renders (a sync update every few seconds must not wipe a
 // code just shown or a preview just made).
@@ -14,8 +15,6 @@ let editId = null;            // outlet being edited, or 'new'
 let editMsg = null;           // {kind, text}
 let editParam = null;         // the ?outlet= last followed
 let draft = { kind: 'outlets', text: '' }; // the import text as typed
-
-const enc = encodeURIComponent;
 
 function joinCodeCard(ctx) {
   const roleSel = select({ id: 'join-role', 'data-test': 'join-role' }, [['technician', 'Technician (crew)'], ['lead', 'Lead']], 'technician');
@@ -76,6 +75,13 @@ function devicesCard(ctx) {
     const revoked = !!d.revoked_at;
     const err = h('p', { class: 'msg msg-error', role: 'alert', hidden: true });
     const revoke = revoked || d.id === me ? null : button('Revoke', { class: 'btn danger', 'data-test': 'device-revoke' }, async () => {
+      // A second tap confirms: a revoked device is cut off until it joins again.
+      if (!revoke.dataset.armed) {
+        revoke.dataset.armed = '1';
+        revoke.textContent = `Tap again to revoke ${d.name}`;
+        setTimeout(() => { delete revoke.dataset.armed; revoke.textContent = 'Revoke'; }, 5000);
+        return;
+      }
       try {
         await ctx.api.post(`/devices/${enc(d.id)}/revoke`, {});
         await loadDevices(ctx, true);

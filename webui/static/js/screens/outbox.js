@@ -2,6 +2,7 @@
 // here with the server's reason until they are fixed or discarded.
 
 import { h, fmt, statusBadge, parseNumber, button, dateTimeText, kindWord, message, timeText } from '../ui.js';
+import { entryLabel } from './entry.js';
 
 const SUBJECTS = { outlet: 'outlets', traverse: 'traverses', capacity_test: 'capacity_tests', water_test: 'water_tests', system: 'systems' };
 const SUBJECT_WORDS = { outlet: 'Outlet', traverse: 'Traverse', capacity_test: 'Capacity test', water_test: 'Water test', system: 'System' };
@@ -12,13 +13,6 @@ function subjectTag(view, r) {
   return rec ? rec.tag : '(not in the job any more)';
 }
 
-function pointText(r) {
-  if (!r.point) return '';
-  if (r.subject_kind === 'traverse') return `, point ${r.point}`;
-  if (r.quantity === 'volts' || r.quantity === 'amps') return `, leg ${r.point}`;
-  return `, point ${r.point}`;
-}
-
 const STATE_TEXT = {
   waiting: 'Waiting to send: it goes when the server answers.',
   sent: 'Sent: kept until the server has it safely on disk.',
@@ -27,7 +21,7 @@ const STATE_TEXT = {
 
 function entryEl(ctx, e) {
   const r = e.reading;
-  const what = `${SUBJECT_WORDS[r.subject_kind] || r.subject_kind} ${subjectTag(ctx.view, r)}: ${ctx.q.describe(r.subject_kind, r.quantity)}${pointText(r)}`;
+  const what = `${SUBJECT_WORDS[r.subject_kind] || r.subject_kind} ${subjectTag(ctx.view, r)}: ${entryLabel(ctx, r)}`;
   const value = r.void ? 'void' : `${fmt(r.value)} ${ctx.q.label(r.unit)}`;
   const kids = [
     h('div', { class: 'row' }, h('span', { class: 'what grow' }, what), statusBadge(e.state)),

@@ -2,7 +2,7 @@
 // reading, the instrument and stage, and the server's result for as found
 // and final. "Next outlet" walks the list without going back to it.
 
-import { h, fmt, statusBadge, numberField, select, parseNumber, clean, kindWord, timeText, caution, message, link } from '../ui.js';
+import { h, fmt, statusBadge, numberField, select, parseNumber, clean, kindWord, timeText, caution, message, link, jobHash } from '../ui.js';
 import { nextOutlet } from './outlets.js';
 
 // Instrument kinds that read each outlet quantity, most likely first.
@@ -15,10 +15,6 @@ function savedText(note, entry, inView) {
   if (entry && entry.state === 'waiting') return `Saved ${note.what} on this device; waiting to send.`;
   if (entry && !inView.has(entry.id)) return `Sent ${note.what}; waiting for the result.`;
   return `Saved ${note.what}; the server's result is shown.`;
-}
-
-function jobHash(ctx, ...parts) {
-  return ['#/job', ctx.jobId, ...parts].map((p, i) => (i ? encodeURIComponent(p) : p)).join('/');
 }
 
 // pickInstrument: the one used last for this kind of reading, else the first
@@ -117,11 +113,10 @@ export function render(ctx) {
   const resultStatus = pending.length ? 'waiting' : o.status;
   const result = h('div', { class: 'result', 'data-test': 'outlet-result', 'data-status': resultStatus, 'aria-live': 'polite' },
     pending.map((e) => h('p', { class: 'pending', 'data-test': 'outlet-pending' },
-      `Waiting to send: ${fmt(e.reading.value)} ${q.label(e.reading.unit)}, ${kindWord(e.reading.stage)} (entered ${timeText(e.created)}).`,
-      e.state === 'sent' ? ' Sent; waiting for the result.' : '')),
-    rejected.map((e) => h('p', { class: 'pending rejected', 'data-test': 'outlet-rejected' },
-      `Rejected: ${fmt(e.reading.value)} ${q.label(e.reading.unit)}, ${kindWord(e.reading.stage)}: ${e.reason} `,
-      link('Fix it in the outbox', jobHash(ctx, 'outbox')))),
+      `${e.state === 'sent' ? 'Sent, waiting for the result' : 'Waiting to send'}: ${fmt(e.reading.value)} ${q.label(e.reading.unit)}, ${kindWord(e.reading.stage)} (entered ${timeText(e.created)}).`)),
+    rejected.map((e) => h('div', { class: 'pending rejected', 'data-test': 'outlet-rejected' },
+      h('p', {}, `Rejected: ${fmt(e.reading.value)} ${q.label(e.reading.unit)}, ${kindWord(e.reading.stage)}: ${e.reason}`),
+      link('Fix or discard it in the outbox', jobHash(ctx, 'outbox'), { class: 'btn danger' }))),
     stageBlock(ctx, 'as_found', o.as_found, o, quantity),
     stageBlock(ctx, 'final', o.final, o, quantity));
 
@@ -174,7 +169,8 @@ export function render(ctx) {
       h('p', { class: 'sub' }, [o.room, kindWord(o.kind), rec.size].filter(Boolean).join(' · ')),
       h('p', { class: 'sub' }, `Design ${fmt(o.design_flow)} ${u.air_flow || ''} · ${rec.method === 'ak' ? 'velocity × Ak' : 'hood'} ${factText}`)),
     h('div', { class: 'cols' },
-      h('form', { class: 'card', on: { submit: onSave }, novalidate: true, 'data-test': 'reading-form' },
+      // "Next outlet" right under Save: on a phone the thumb moves on without scrolling past the result.
+      h('div', {}, h('form', { class: 'card', on: { submit: onSave }, novalidate: true, 'data-test': 'reading-form' },
         entry.el,
         h('div', { class: 'form-grid' },
           h('div', { class: 'field' }, h('label', { for: 'stage' }, 'Stage'), stageSel),
@@ -183,16 +179,16 @@ export function render(ctx) {
         err,
         saveBtn,
         saved),
+      h('div', { class: 'next-row' },
+        link('All outlets', jobHash(ctx, 'system', o.system_id), { class: 'btn secondary' }),
+        next
+          ? link(`Next outlet: ${next.tag} ›`, jobHash(ctx, 'outlet', next.id), { class: 'btn', 'data-test': 'next-outlet', 'data-tag': next.tag })
+          : h('span', { class: 'btn secondary', 'data-test': 'end-of-list', 'aria-disabled': 'true' }, 'Last outlet in this list'))),
       h('section', { class: 'card' },
         h('div', { class: 'row' }, h('h2', { class: 'grow' }, 'Result'), statusBadge(resultStatus)),
         result,
         (o.flags || []).length ? h('ul', { class: 'flags', 'data-test': 'outlet-flags' }, o.flags.map((f) => h('li', { 'data-kind': f.kind }, f.text))) : null,
         (o.errors || []).length ? h('ul', { class: 'flags' }, o.errors.map((e) => h('li', {}, e))) : null)),
-    h('div', { class: 'next-row' },
-      link('All outlets', jobHash(ctx, 'system', o.system_id), { class: 'btn secondary' }),
-      next
-        ? link(`Next outlet: ${next.tag} ›`, jobHash(ctx, 'outlet', next.id), { class: 'btn', 'data-test': 'next-outlet', 'data-tag': next.tag })
-        : h('span', { class: 'btn secondary', 'data-test': 'end-of-list', 'aria-disabled': 'true' }, 'Last outlet in this list')),
     h('section', { class: 'card small' },
       h('dl', { class: 'facts' },
         h('dt', {}, 'System'), h('dd', {}, sys ? `${sys.tag} ${sys.name ? `· ${sys.name}` : ''}` : '—'),
@@ -201,7 +197,7 @@ export function render(ctx) {
         h('dt', {}, 'Size'), h('dd', {}, rec.size || '—'),
         h('dt', {}, 'Design flow'), h('dd', {}, `${fmt(o.design_flow)} ${u.air_flow || ''}`),
         h('dt', {}, rec.method === 'ak' ? 'Ak' : 'Factor'), h('dd', {}, factText)),
-      ctx.role === 'lead' ? h('p', {}, link('Edit the design data', `${jobHash(ctx, 'lead')}?outlet=${encodeURIComponent(id)}`)) : null,
+      ctx.role === 'lead' ? h('p', {}, link('Edit the design data', `${jobHash(ctx, 'lead')}?outlet=${encodeURIComponent(id)}`, { class: 'btn secondary' })) : null,
       caution('ladder')),
     !pending.length && !rejected.length ? null : message('info', 'Entries stay on this device until the server has them on disk.'));
 }

@@ -1,11 +1,11 @@
 // Traverse screen: a duct plane read point by point with a pitot tube (or an
 // anemometer). Point positions, velocities and the flow all come from the
 // server's results; the app only shows them and posts readings.
-import { h, caution } from '../ui.js';
+import { h, caution, kindWord } from '../ui.js';
 import { s } from '../chart.js';
 import {
   screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, collect, post, pendingView, isPending,
-  badge, row, num, tolerance, messages, header, saveButton, noteLine, latest, nowHint, defaultStage, unitLabel, asEntered,
+  badge, row, num, tolerance, messages, header, saveButton, noteLine, latest, nowHint, unitLabel, asEntered,
   put, fill, saveRow, resultCard, notFound,
 } from './entry.js';
 
@@ -66,13 +66,18 @@ function grid(tr, states, current, onPick) {
       svg.append(s('line', { x1: c + ux * R, y1: c + uy * R, x2: c - ux * R, y2: c - uy * R, class: 'tline' }),
         s('text', { x: c + ux * (R + 12), y: c + uy * (R + 12) + 4, class: 'tlabel', 'text-anchor': 'middle' }, String(d + 1)));
     }
-    states.forEach((p, i) => {
+    const at = states.map((p, i) => {
       const m = /^diameter (\d+)/.exec(p.label);
       const [ux, uy] = dir((m ? Number(m[1]) : Math.floor(i / tr.points_per_diameter) + 1) - 1);
       const r = R - p.depth * k; // from the entry wall through the centre
-      const cx = c + ux * r, cy = c + uy * r, steep = Math.abs(uy) > 0.7;
-      svg.appendChild(dot(p, cx, cy, s('circle', { cx, cy, r: 16, class: 'tp-hit' }), steep ? 10 : 0, steep ? 4 : 17));
+      return { p, cx: c + ux * r, cy: c + uy * r, steep: Math.abs(uy) > 0.7 };
     });
+    for (const a of at) {
+      // A finger-sized (44 px) target where the neighbours leave room for one.
+      const near = Math.min(...at.filter((b) => b !== a).map((b) => Math.hypot(b.cx - a.cx, b.cy - a.cy)));
+      const hit = Math.max(16, Math.min(22, near / 2));
+      svg.appendChild(dot(a.p, a.cx, a.cy, s('circle', { cx: a.cx, cy: a.cy, r: hit, class: 'tp-hit' }), a.steep ? 10 : 0, a.steep ? 4 : 17));
+    }
     return svg;
   }
   const padL = 30, pad = 12, plotW = W - padL - pad;
@@ -98,7 +103,7 @@ export function render(ctx) {
   const tr = byId(snap(ctx).traverses, id);
   const root = h('section', { class: 'scr', 'data-test': 'traverse-screen', 'data-tag': tr ? tr.tag : '' });
   if (!tr) return notFound(root, 'Traverse');
-  const st = screenState(`traverse:${ctx.jobId}:${id}`, () => ({ stage: defaultStage(ctx, id), point: 0, qty: 'vp' }));
+  const st = screenState(ctx, 'traverse', id, { point: 0, qty: 'vp' });
   const sys = byId(snap(ctx).systems, tr.system_id);
   const U = rUnits(ctx);
   const len = U.length || 'in';
@@ -115,7 +120,6 @@ export function render(ctx) {
   const pendingBox = h('div');
   const resultBox = h('div');
   const planeBox = h('div', { class: 'card' });
-  const stageName = () => (st.stage === 'final' ? 'final' : 'as found');
 
   const refresh = () => {
     const res = byId(results(ctx).traverses, id);
@@ -128,7 +132,7 @@ export function render(ctx) {
     h('p', { class: 'scr-legend' }, `● read   ◍ waiting to send   ○ not read   ◎ this point · velocities in ${U.velocity || ''}`));
     fill(pendingBox, pendingView(ctx, st));
     fill(resultBox, resultCard('traverse-result', res && res.status, res, () => [
-      h('div', { class: 'scr-status' }, badge(res.status), ` ${res.points_read} of ${res.points_total} points (${res.stage === 'final' ? 'final' : 'as found'})`),
+      h('div', { class: 'scr-status' }, badge(res.status), ` ${res.points_read} of ${res.points_total} points (${kindWord(res.stage)})`),
       row('Flow', num(res.flow, 0, U.air_flow), 'traverse-flow'),
       sys && sys.design && sys.design.airflow > 0 && row('Design', num(sys.design.airflow, 0, U.air_flow)),
       tolerance(res.tolerance, U.air_flow),
@@ -163,7 +167,7 @@ export function render(ctx) {
     fill(promptBox,
       h('p', { class: 'scr-prompt', 'data-test': 'traverse-point', 'data-point': String(p ? p.point : 0) }, p ? pointWords(p, len) : 'No point positions yet.'),
       p && p.stored && h('p', { class: 'hint' }, `Read ${asEntered(p.stored.value)} ${unitLabel(ctx, p.stored.unit)}; saving again replaces it.`),
-      h('p', { class: 'hint', 'data-test': 'traverse-progress' }, `${states.filter((x) => x.read).length} of ${states.length} points read (${stageName()}).`),
+      h('p', { class: 'hint', 'data-test': 'traverse-progress' }, `${states.filter((x) => x.read).length} of ${states.length} points read (${kindWord(st.stage)}).`),
       h('label', { class: 'scr-pick' }, h('span', { class: 'scr-pick-label' }, 'Reading'), qsel),
       f.el,
       h('div', { class: 'scr-actions' }, save),

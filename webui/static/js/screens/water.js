@@ -1,10 +1,10 @@
 // Water test screen: a coil or circuit read with a balancing valve (Cv and ΔP)
 // or a flow meter, and its entering and leaving water temperatures. Flow,
 // capacity and the air/water agreement come from the server.
-import { h, caution } from '../ui.js';
+import { h, caution, statusBadge } from '../ui.js';
 import {
   screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, pendingView, badge, row, num,
-  tolerance, messages, header, noteLine, nowHint, defaultStage, missingList, jobUnits, put, fill, saveRow, resultCard, notFound,
+  tolerance, messages, header, noteLine, nowHint, missingList, jobUnits, put, fill, saveRow, resultCard, notFound,
 } from './entry.js';
 
 const FLUIDS = { water: 'water', pg: 'propylene glycol', eg: 'ethylene glycol' };
@@ -15,7 +15,7 @@ export function render(ctx) {
   const wt = byId(snap(ctx).water_tests, id);
   const root = h('section', { class: 'scr', 'data-test': 'water-screen', 'data-tag': wt ? wt.tag : '' });
   if (!wt) return notFound(root, 'Water test');
-  const st = screenState(`water:${ctx.jobId}:${id}`, () => ({ stage: defaultStage(ctx, id) }));
+  const st = screenState(ctx, 'water_test', id);
   const sys = byId(snap(ctx).systems, wt.system_id);
   const U = rUnits(ctx);
   const si = jobUnits(ctx) === 'si';
@@ -28,11 +28,7 @@ export function render(ctx) {
   const hot = res && ((res.capacity && res.capacity.process === 'heating') || res.enter_temp > lim || res.leave_temp > lim);
 
   put(root, header(`Water test ${wt.tag}`, sys ? [sys.tag, sys.name].filter(Boolean).join(' · ') : ''),
-    // A short caution always; the full one once the water shows hot.
-    hot ? [caution('hot_water'), h('p', { class: 'hint', 'data-test': 'hot-water' },
-      'This water is hot enough to scald: let the system cool where the work allows, or wear the PPE the site safety plan requires.')]
-      : h('aside', { class: 'caution caution-short', role: 'note', 'data-test': 'caution', 'data-kind': 'hot_water_short' },
-        h('strong', {}, '⚠ Piping: '), 'lines and test ports can be hot and under pressure; open ports slowly and follow the site safety plan.'),
+    caution(hot ? 'hot_water' : 'piping'),
     h('div', { class: 'scr-duct', 'data-test': 'water-source' },
       h('div', {}, valve ? `Balancing valve, ${si ? 'Kv' : 'Cv'} ${wt.valve_cv}: read the ΔP across it` : 'Flow meter: read the flow'),
       h('div', {}, `Fluid: ${fluid} · design ${num(wt.design_flow, 1, U.water_flow)}`),
@@ -68,7 +64,7 @@ export function render(ctx) {
       c && [row(`Capacity (${c.process})`, num(c.capacity, 0, U.power), 'water-capacity'), row('Mean water temperature', num(c.mean_temp, 1, t))],
       res.specific_gravity !== undefined && row('Specific gravity used', num(res.specific_gravity, 3)),
       a && h('div', { class: 'scr-agree', 'data-test': 'water-agreement' },
-        h('h3', {}, 'Air side and water side'),
+        h('h3', {}, 'Air side and water side ', a.note ? statusBadge('flag', 'sides differ') : statusBadge('within', 'sides agree')),
         row('Air side (capacity test)', num(a.air_total, 0, U.power)),
         row('Water side', num(a.water_capacity, 0, U.power)),
         row('Difference', `${num(a.difference_pct, 1)} %`, 'water-difference'),
