@@ -123,6 +123,15 @@ func TestAppFiles(t *testing.T) {
 	if resp.Header.Get("X-Content-Type-Options") != "nosniff" {
 		t.Error("no nosniff")
 	}
+	// A phone without the service worker revalidates rather than downloads.
+	tag := resp.Header.Get("ETag")
+	req, _ := http.NewRequest(http.MethodGet, ts.ts.URL+"/", nil)
+	req.Header.Set("If-None-Match", tag)
+	if again, err := ts.ts.Client().Do(req); err != nil || tag == "" || again.StatusCode != http.StatusNotModified {
+		t.Errorf("revalidating / with ETag %q: %v %v", tag, again, err)
+	} else {
+		again.Body.Close()
+	}
 	if resp, _ := get("/js/main.js"); !strings.HasPrefix(resp.Header.Get("Content-Type"), "text/javascript") {
 		t.Errorf("main.js served as %q", resp.Header.Get("Content-Type"))
 	}
