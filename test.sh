@@ -20,6 +20,10 @@ command -v npm >/dev/null 2>&1 || missing+=(npm)
 # The browser tests drive Debian's Chromium (server/browser_test.go); under CI
 # they fail rather than skip without it.
 [ -x /usr/bin/chromium ] || missing+=(chromium)
+# The report tests read the PDF back with poppler's tools and check it with
+# qpdf (report/report_test.go); under CI they fail rather than skip without them.
+command -v pdftotext >/dev/null 2>&1 || missing+=(poppler-utils)
+command -v qpdf >/dev/null 2>&1 || missing+=(qpdf)
 if [ "${#missing[@]}" -gt 0 ]; then
 	if [ "$(id -u)" -ne 0 ]; then
 		echo "test.sh: missing ${missing[*]}; run as root, or: sudo apt-get install -y ${missing[*]}" >&2
