@@ -62,6 +62,12 @@ func (m *Main) Run(ctx context.Context, args []string) error {
 		return m.runDevice(ctx, args[1:])
 	case "backup":
 		return m.runBackup(ctx, args[1:])
+	case "report":
+		return m.runReport(ctx, args[1:])
+	case "verify":
+		return m.runVerify(ctx, args[1:])
+	case "signer":
+		return m.runSigner(ctx, args[1:])
 	case "help", "-h", "--help":
 		m.usage()
 		return nil
@@ -83,6 +89,9 @@ commands:
   device   add a device and print its token for scripts (device add --name N --role R)
   backup   copy the store safely while it is in use (--db PATH --out FILE)
   calc     field arithmetic with JSON output (fieldtab calc help)
+  report   the closeout report PDF (--job ID --out FILE.pdf [--sign])
+  verify   check a signed report (FILE.pdf [--db PATH])
+  signer   the key reports are signed with (signer init|import|show)
 `)
 }
 
