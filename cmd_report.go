@@ -63,30 +63,17 @@ func (m *Main) runReport(ctx context.Context, args []string) error {
 		return err
 	}
 	defer db.Close()
-	snap, err := db.Snapshot(ctx, *jobID)
-	if err != nil {
-		return jobErr(err)
-	}
-	issued, err := db.Reports(ctx, *jobID)
-	if err != nil {
-		return jobErr(err)
-	}
-	revision := 1
-	if len(issued) > 0 {
-		revision = issued[len(issued)-1].Revision + 1
-	}
 	now := time.Now()
-	results, err := schema.ComputeResults(snap, now)
+	in, err := report.Next(ctx, db, *jobID, now)
 	if err != nil {
-		return err
+		return jobErr(err)
 	}
-	in := report.Input{Snapshot: snap, Results: results, Revision: revision, History: report.History(issued), Generated: now}
+	snap, revision := in.Snapshot, in.Revision
 	if *signIt {
 		in.Signoff = &report.Signoff{Name: signer.Name, Certification: *cert, SignedAt: now}
 		if o := signer.Certificate.Subject.Organization; len(o) > 0 {
 			in.Signoff.Organisation = o[0]
 		}
-		signer.Reason = fmt.Sprintf("Test and balance report, revision %d, of %s", revision, snap.Job.Name)
 	}
 	// Progress on a large job: a line at each tenth, on stderr.
 	big := len(snap.Outlets)+len(snap.Readings)/20 > 300
@@ -100,38 +87,29 @@ func (m *Main) runReport(ctx context.Context, args []string) error {
 			fmt.Fprintf(m.Stderr, "report: %3d%% (%d of %d parts)\n", done*100/total, done, total)
 		}
 	}
-	var buf bytes.Buffer
-	if err := report.Render(&buf, in); err != nil {
-		return err
-	}
-	pdf := buf.Bytes()
 	if !*signIt {
-		if err := os.WriteFile(*out, pdf, 0o644); err != nil {
+		var buf bytes.Buffer
+		if err := report.Render(&buf, in); err != nil {
+			return err
+		}
+		if err := os.WriteFile(*out, buf.Bytes(), 0o644); err != nil {
 			return fmt.Errorf("--out: %w", err)
 		}
 		fmt.Fprintf(m.Stdout, "Wrote an unsigned preview of revision %d of %s to %s (%d bytes); sign it with --sign.\n",
-			revision, snap.Job.Name, *out, len(pdf))
+			revision, snap.Job.Name, *out, buf.Len())
 		return nil
 	}
-	digest, err := schema.SnapshotDigest(snap)
-	if err != nil {
-		return err
-	}
 	t0 := time.Now()
-	signed, err := report.Sign(pdf, signer, now)
+	rec, signed, err := report.Issue(ctx, db, schema.Actor{Name: signer.Name + " (command line)", Role: schema.RoleLead}, in, signer)
 	if err != nil {
 		return err
 	}
-	signTime := time.Since(t0)
-	rec, err := db.IssueReport(ctx, schema.Actor{Name: signer.Name + " (command line)", Role: schema.RoleLead}, *jobID, revision, signed, digest, signer.Name)
-	if err != nil {
-		return err
-	}
+	took := time.Since(t0)
 	if err := os.WriteFile(*out, signed, 0o644); err != nil {
 		return fmt.Errorf("--out: %w (revision %d is stored; fieldtab can write it again)", err, rec.Revision)
 	}
-	fmt.Fprintf(m.Stdout, "Signed revision %d of %s as %s and stored it; wrote %s (%d bytes, signed in %s).\n",
-		rec.Revision, snap.Job.Name, signer.Name, *out, len(signed), signTime.Round(time.Millisecond))
+	fmt.Fprintf(m.Stdout, "Signed revision %d of %s as %s and stored it; wrote %s (%d bytes, made and signed in %s).\n",
+		rec.Revision, snap.Job.Name, signer.Name, *out, len(signed), took.Round(time.Millisecond))
 	fmt.Fprintf(m.Stdout, "  PDF SHA-256:      %s\n  data SHA-256:     %s\n", rec.PDFSHA256, rec.SnapshotSHA256)
 	return nil
 }
