@@ -77,6 +77,7 @@ func (m *Main) runServe(ctx context.Context, args []string, demo bool) error {
 	dbPath := fs.String("db", "", "SQLite store (default: fieldtab/fieldtab.db in the user's data directory)")
 	addr := fs.String("addr", ":"+strconv.Itoa(defaultPort), "listen address host:port (default: every interface, so phones on the site Wi-Fi can join)")
 	demoFlag := fs.Bool("demo", demo, "load the demo job if the store has none")
+	signerDir := fs.String("signer-dir", "", "directory of the signer's key and certificate, for reports signed from the app (default: fieldtab in the user's config directory)")
 	if err := fs.Parse(args); err != nil {
 		return errUsage
 	}
@@ -96,6 +97,11 @@ func (m *Main) runServe(ctx context.Context, args []string, demo bool) error {
 	}
 	logger := slog.New(slog.NewTextHandler(m.Stderr, &slog.HandlerOptions{Level: slog.LevelInfo}))
 	srv := server.New(db, *addr, logger)
+	// Without a config directory the server still runs; signing then says
+	// how to make the signer files.
+	if d, err := signerDirOr(*signerDir); err == nil {
+		srv.SignerDir = d
+	}
 	if err := srv.Open(); err != nil {
 		return err
 	}

@@ -17,6 +17,7 @@ func (s *Server) registerRoutes(api *mux.Router) {
 	s.registerRecordRoutes(r)
 	s.registerReadingRoutes(r)
 	s.registerReferenceRoutes(r)
+	s.registerReportRoutes(r)
 }
 
 // jobID is the {job} path variable.

@@ -30,6 +30,10 @@ type Server struct {
 	// zone: calibration is due on a calendar date there, not in UTC.
 	Now func() time.Time
 
+	// SignerDir holds the key and certificate reports are signed with
+	// (report.LoadSignerDir); "" or missing files make signing answer 503.
+	SignerDir string
+
 	ln      net.Listener
 	srv     *http.Server
 	router  *mux.Router
@@ -37,9 +41,14 @@ type Server struct {
 
 	// inflight counts write requests, so Close can wait for them to finish.
 	inflight sync.WaitGroup
+
+	// signing holds one mutex per job, so that signs of a job run one at a time.
+	signMu  sync.Mutex
+	signing map[string]*sync.Mutex
 }
 
-// maxBody bounds every request body; a readings batch of 500 fits well inside.
+// maxBody bounds every request body; a readings batch of 500 fits well inside,
+// and so does a report sign-off with its drawn signature (maxSignaturePNG).
 const maxBody = 1 << 20
 
 // New returns a server over db with its routes registered. Call Open to listen.

@@ -12,7 +12,7 @@ import { q } from './quantities.js';
 
 const SCREENS = {
   join: 'join', jobs: 'jobs', home: 'home', outlets: 'outlets', outlet: 'outlet', traverse: 'traverse',
-  capacity: 'capacity', water: 'water', fan: 'fan', outbox: 'outbox', lead: 'lead',
+  capacity: 'capacity', water: 'water', fan: 'fan', outbox: 'outbox', lead: 'lead', signoff: 'signoff',
 };
 // Screens that need the job's view before they can show anything.
 const NEEDS_VIEW = new Set(['home', 'outlets', 'outlet', 'traverse', 'capacity', 'water', 'fan', 'lead']);
@@ -42,7 +42,7 @@ function parse(hash) {
     if (!sub) return { name: 'home', jobId, params };
     const byId = { system: 'outlets', outlet: 'outlet', traverse: 'traverse', capacity: 'capacity', water: 'water', fan: 'fan' };
     if (byId[sub] && id) return { name: byId[sub], jobId, params: { ...params, id } };
-    if (sub === 'outbox' || sub === 'lead') return { name: sub, jobId, params };
+    if (sub === 'outbox' || sub === 'lead' || sub === 'signoff') return { name: sub, jobId, params };
   }
   return { name: 'notfound', params };
 }
