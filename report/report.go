@@ -246,7 +246,7 @@ func (d *doc) parts() []func() {
 		tr := &d.r.Traverses[i]
 		p = append(p, func() { d.traverse(tr) })
 	}
-	p = append(p, d.waterTests, d.instruments, d.history, d.signoff)
+	p = append(p, d.waterTests, d.instruments, d.readingLog, d.history, d.signoff)
 	return p
 }
 

@@ -375,8 +375,8 @@ func TestRenderProgress(t *testing.T) {
 		t.Fatal(err)
 	}
 	// Cover, basis, findings, 3 systems, outlets, 2 traverses, water,
-	// instruments, history, sign-off, and the output.
-	const want = 14
+	// instruments, reading log, history, sign-off, and the output.
+	const want = 15
 	if len(calls) != want {
 		t.Fatalf("progress called %d times, want %d: %v", len(calls), want, calls)
 	}
