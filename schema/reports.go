@@ -240,18 +240,12 @@ func SnapshotDigest(s *Snapshot) (string, error) {
 	if s == nil {
 		return "", Errorf(Invalid, "snapshot", "no snapshot given")
 	}
+	// The snapshot's own fields, flattened after the version.
 	type canonical struct {
-		Version       string         `json:"version"`
-		Job           Job            `json:"job"`
-		Instruments   []Instrument   `json:"instruments"`
-		Systems       []System       `json:"systems"`
-		Outlets       []Outlet       `json:"outlets"`
-		Traverses     []Traverse     `json:"traverses"`
-		CapacityTests []CapacityTest `json:"capacity_tests"`
-		WaterTests    []WaterTest    `json:"water_tests"`
-		Readings      []Reading      `json:"readings"`
+		Version string `json:"version"`
+		Snapshot
 	}
-	c := canonical{Version: snapshotDigestVersion, Job: s.Job}
+	c := canonical{Version: snapshotDigestVersion, Snapshot: Snapshot{Job: s.Job}}
 	c.Job.Seq, c.Job.CreatedAt, c.Job.UpdatedAt, c.Job.Status = 0, time.Time{}, time.Time{}, ""
 	c.Instruments = canonRecords(s.Instruments, func(x *Instrument) (string, *recordMeta) { return x.ID, &x.recordMeta })
 	c.Systems = canonRecords(s.Systems, func(x *System) (string, *recordMeta) { return x.ID, &x.recordMeta })
