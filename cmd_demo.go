@@ -426,9 +426,9 @@ func (l *demoLoader) tests() error {
 	}
 
 	waters := []*schema.WaterTest{
-		{JobID: l.job.ID, SystemID: l.sys["AHU-1"].ID, Tag: "CHW coil AHU-1", FlowSource: "valve", ValveCv: 12.5, Fluid: "water",
+		{JobID: l.job.ID, SystemID: l.sys["AHU-1"].ID, Tag: "CHW coil AHU-1", Mode: "cooling", FlowSource: "valve", ValveCv: 12.5, Fluid: "water",
 			DesignFlow: 40, CapacityTest: caps[2].ID},
-		{JobID: l.job.ID, SystemID: l.sys["AHU-1"].ID, Tag: "HW coil AHU-1", FlowSource: "valve", ValveCv: 6.3, Fluid: "water",
+		{JobID: l.job.ID, SystemID: l.sys["AHU-1"].ID, Tag: "HW coil AHU-1", Mode: "heating", FlowSource: "valve", ValveCv: 6.3, Fluid: "water",
 			DesignFlow: 18},
 	}
 	// ΔP across the balancing valve (psi), entering and leaving water (°F).

@@ -117,7 +117,7 @@ func largePlan(tb testing.TB, now time.Time) *plan {
 			p.read(schema.SubjectCapacityTest, ct.ID, q, 0, v, schema.UnitDegF, schema.StageFinal, "Psychrometer 1", at)
 		}
 		for w := range largeWaterTests / largeSystems {
-			wt := schema.WaterTest{ID: schema.NewID(), JobID: p.job.ID, SystemID: sysID, Fluid: "water", FlowSource: "valve",
+			wt := schema.WaterTest{ID: schema.NewID(), JobID: p.job.ID, SystemID: sysID, Mode: "cooling", Fluid: "water", FlowSource: "valve",
 				ValveCv: 10, DesignFlow: 30}
 			var enter, leave, first float64
 			q0, u0 := "dp", schema.UnitPsi

@@ -259,11 +259,11 @@ func demoPlan(tb testing.TB, now time.Time) *plan {
 	}
 
 	p.waters = []schema.WaterTest{
-		{ID: schema.NewID(), JobID: p.job.ID, SystemID: ahuID, Tag: "CHW coil AHU-1", FlowSource: "valve", ValveCv: 12.5, Fluid: "water",
+		{ID: schema.NewID(), JobID: p.job.ID, SystemID: ahuID, Tag: "CHW coil AHU-1", Mode: "cooling", FlowSource: "valve", ValveCv: 12.5, Fluid: "water",
 			DesignFlow: 40, CapacityTest: caps[1].ID},
-		{ID: schema.NewID(), JobID: p.job.ID, SystemID: ahuID, Tag: "HW coil AHU-1", FlowSource: "valve", ValveCv: 6.3, Fluid: "water",
+		{ID: schema.NewID(), JobID: p.job.ID, SystemID: ahuID, Tag: "HW coil AHU-1", Mode: "heating", FlowSource: "valve", ValveCv: 6.3, Fluid: "water",
 			DesignFlow: 18},
-		{ID: schema.NewID(), JobID: p.job.ID, SystemID: rtuID, Tag: "Glycol loop RTU-1", FlowSource: "meter", Fluid: "pg",
+		{ID: schema.NewID(), JobID: p.job.ID, SystemID: rtuID, Tag: "Glycol loop RTU-1", Mode: "cooling", FlowSource: "meter", Fluid: "pg",
 			Concentration: 30, DesignFlow: 12},
 	}
 	water := [][3]float64{{10.2, 44.2, 56.0}, {8.0, 180.5, 160.2}, {13.1, 140.0, 125.0}}

@@ -838,7 +838,7 @@ func digitRun(s string) int {
 
 // readingSelectColumns are the readings columns in the order scanReading reads.
 const readingSelectColumns = "id, job_id, subject_kind, subject_id, quantity, point, value, unit, stage, instrument_id, " +
-	"technician, device_id, taken_at, received_at, supersedes, void, note, seq"
+	"technician, device_id, taken_at, received_at, supersedes, void, note, seq, confirmed"
 
 // scanReading reads one row of readingSelectColumns. NULL instrument_id,
 // device_id and supersedes read as "".
@@ -851,7 +851,7 @@ func scanReading(row interface{ Scan(...any) error }) (Reading, error) {
 		err                            error
 	)
 	if err := row.Scan(&r.ID, &r.JobID, &r.SubjectKind, &r.SubjectID, &r.Quantity, &r.Point, &value, &r.Unit, &r.Stage,
-		&instrument, &r.Technician, &device, &taken, &received, &supersedes, &r.Void, &r.Note, &r.Seq); err != nil {
+		&instrument, &r.Technician, &device, &taken, &received, &supersedes, &r.Void, &r.Note, &r.Seq, &r.Confirmed); err != nil {
 		return Reading{}, err
 	}
 	if value.Valid {

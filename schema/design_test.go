@@ -56,7 +56,7 @@ func testCapacityTest(jobID, systemID, traverseID string) *CapacityTest {
 }
 
 func testWaterTest(jobID, systemID, capacityTestID string) *WaterTest {
-	return &WaterTest{JobID: jobID, SystemID: systemID, Tag: "CHW coil RTU-1", FlowSource: "valve", ValveCv: 12.5,
+	return &WaterTest{JobID: jobID, SystemID: systemID, Tag: "CHW coil RTU-1", Mode: "cooling", FlowSource: "valve", ValveCv: 12.5,
 		Fluid: "pg", Concentration: 30, DesignFlow: 40, CapacityTest: capacityTestID}
 }
 
@@ -136,6 +136,8 @@ func TestJobValidate(t *testing.T) {
 	}{
 		{"OK", func(j *Job) {}, ""},
 		{"OKSI", func(j *Job) { j.Units = "si"; j.Elevation = f(7500); j.Barometric = f(101.3) }, ""},
+		{"OKProjectNumber", func(j *Job) { j.ProjectNumber = "P-2026-114"; j.Remarks = "night work only" }, ""},
+		{"ErrProjectNumberTooLong", func(j *Job) { j.ProjectNumber = strings.Repeat("9", 81) }, "project_number"},
 		{"OKElevationLowIP", func(j *Job) { j.Elevation = f(-1500) }, ""},
 		{"OKClosed", func(j *Job) { j.Status = "closed" }, ""},
 		{"ErrIDNotUUID", func(j *Job) { j.ID = "job-1" }, "id"},
@@ -245,6 +247,20 @@ func TestSystemValidate(t *testing.T) {
 				r.Design = SystemDesign{Airflow: 1900, OutdoorAir: 380, ExternalStatic: 200, RatedTotal: 35_000, MotorHP: 2.2}
 			}, ""},
 			{"OKPump", 0, func(r *System) { r.Kind = "pump"; r.Design = SystemDesign{WaterFlow: 120, MotorHP: 5} }, ""},
+			{"OKNameplate", 0, func(r *System) {
+				r.Design.Make, r.Design.Model, r.Design.Serial = "Make", "RT-240", "SN 0042"
+				r.Design.MotorFrame, r.Design.ServiceFactor = "184T", 1.15
+				r.Design.FanSheaveSize, r.Design.FanSheavePitch = "1B5V124", 12.4
+				r.Design.MotorSheaveSize, r.Design.MotorSheavePitch = "1VP56 adjustable", 5.2
+				r.Design.Belts, r.Design.Filters = "1 × B55", "8 × 24×24×2 MERV 13"
+				r.Remarks = "access from the roof hatch"
+			}, ""},
+			{"OKSheaveSI", measure.SI, func(r *System) { r.Design = SystemDesign{FanSheavePitch: 315, MotorSheavePitch: 132} }, ""},
+			{"ErrServiceFactorLow", 0, func(r *System) { r.Design.ServiceFactor = 0.9 }, "design.service_factor"},
+			{"ErrFanSheaveHigh", 0, func(r *System) { r.Design.FanSheavePitch = 81 }, "design.fan_sheave_pitch"},
+			{"ErrMotorSheaveNegative", 0, func(r *System) { r.Design.MotorSheavePitch = -1 }, "design.motor_sheave_pitch"},
+			{"ErrBeltsTooLong", 0, func(r *System) { r.Design.Belts = strings.Repeat("b", 81) }, "design.belts"},
+			{"ErrRemarksControl", 0, func(r *System) { r.Remarks = "a\u202Eb\x07" }, "remarks"},
 			{"ErrTagRequired", 0, func(r *System) { r.Tag = "" }, "tag"},
 			{"ErrKind", 0, func(r *System) { r.Kind = "chiller" }, "kind"},
 			{"ErrNameTooLong", 0, func(r *System) { r.Name = strings.Repeat("n", 201) }, "name"},
@@ -367,6 +383,10 @@ func TestWaterTestValidate(t *testing.T) {
 			{"OKWater", 0, func(r *WaterTest) { r.Fluid, r.Concentration = "water", 0 }, ""},
 			{"OKMeter", 0, func(r *WaterTest) { r.FlowSource, r.ValveCv = "meter", 0 }, ""},
 			{"OKCapacityTest", 0, func(r *WaterTest) { r.CapacityTest = sid }, ""},
+			{"OKHeating", 0, func(r *WaterTest) { r.Mode = "heating" }, ""},
+			{"ErrModeMissing", 0, func(r *WaterTest) { r.Mode = "" }, "mode"},
+			{"ErrMode", 0, func(r *WaterTest) { r.Mode = "both" }, "mode"},
+			{"ErrRemarksTooLong", 0, func(r *WaterTest) { r.Remarks = strings.Repeat("r", 501) }, "remarks"},
 			{"OKSI", measure.SI, func(r *WaterTest) { r.DesignFlow = 2.5; r.ValveCv = 10.8 }, ""},
 			{"ErrSystemID", 0, func(r *WaterTest) { r.SystemID = "" }, "system_id"},
 			{"ErrTag", 0, func(r *WaterTest) { r.Tag = strings.Repeat("t", 41) }, "tag"},

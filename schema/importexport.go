@@ -1860,7 +1860,7 @@ func (m *merger) reading(r *Reading, lookup, insert *sql.Stmt) error {
 	}
 	_, err = insert.ExecContext(m.ctx, r.ID, r.JobID, r.SubjectKind, r.SubjectID, r.Quantity, r.Point, r.Value, r.Unit,
 		r.Stage, nullString(r.InstrumentID), r.Technician, nullString(r.DeviceID), r.TakenAt.UTC().Format(timeLayout), m.now,
-		nullString(r.Supersedes), r.Void, r.Note, seq)
+		nullString(r.Supersedes), r.Void, r.Note, seq, r.Confirmed)
 	if err != nil {
 		return fmt.Errorf("store reading %s: %w", r.ID, err)
 	}

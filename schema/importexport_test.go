@@ -853,7 +853,7 @@ func TestJobJSONDeletions(t *testing.T) {
 		// Meanwhile crew A added a water test on that capacity test.
 		c := MustOpenDB(t)
 		importDoc(t, c, raw)
-		mustCreate(t, c, &WaterTest{JobID: f.job.ID, SystemID: f.sys.ID, Tag: "HW coil", FlowSource: "valve", ValveCv: 5,
+		mustCreate(t, c, &WaterTest{JobID: f.job.ID, SystemID: f.sys.ID, Tag: "HW coil", Mode: "heating", FlowSource: "valve", ValveCv: 5,
 			Fluid: "water", DesignFlow: 10, CapacityTest: f.cap.ID})
 		_, err := c.ImportJobJSON(ctx, lead, bytes.NewReader(rawB))
 		assertErr(t, err, Conflict, "capacity_tests[0].deleted")

@@ -245,8 +245,8 @@ type readingBatch struct {
 const lookupReadingSQL = "SELECT job_id, seq, subject_kind, subject_id, quantity, point, value, unit, stage, void FROM readings WHERE id = ?"
 
 const insertReadingSQL = `INSERT INTO readings (id, job_id, subject_kind, subject_id, quantity, point, value, unit,
-	stage, instrument_id, technician, device_id, taken_at, received_at, supersedes, void, note, seq)
-	VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`
+	stage, instrument_id, technician, device_id, taken_at, received_at, supersedes, void, note, seq, confirmed)
+	VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`
 
 // subjectInfo is a looked-up subject: err rejects readings on it; points is
 // the traverse's point count, or pointsErr why it has none.
@@ -308,7 +308,7 @@ func (b *readingBatch) add(a Actor, r *Reading) (ReadingResult, error) {
 	seq := b.seq + 1
 	_, err := b.st.Exec(insertReadingSQL, r.ID, r.JobID, r.SubjectKind, r.SubjectID, r.Quantity, r.Point, r.Value, r.Unit,
 		r.Stage, nullString(r.InstrumentID), r.Technician, nullString(r.DeviceID), r.TakenAt.UTC().Format(timeLayout), b.stamp,
-		nullString(r.Supersedes), r.Void, r.Note, seq)
+		nullString(r.Supersedes), r.Void, r.Note, seq, r.Confirmed)
 	if err != nil {
 		return res, fmt.Errorf("store reading %s: %w", r.ID, err)
 	}

@@ -55,7 +55,7 @@ func mustReadingsFixture(tb testing.TB, db *DB) *rdgFixture {
 	ct := &CapacityTest{JobID: f.job, SystemID: f.system, Tag: "CT-1", Mode: "cooling", FlowSource: "direct", FlowBasis: "standard"}
 	must(Create(ctx, db, rdgLead, ct))
 	f.capTest = ct.ID
-	wt := &WaterTest{JobID: f.job, SystemID: f.system, Tag: "CHW coil", FlowSource: "valve", ValveCv: 10, Fluid: "water", DesignFlow: 40}
+	wt := &WaterTest{JobID: f.job, SystemID: f.system, Tag: "CHW coil", Mode: "cooling", FlowSource: "valve", ValveCv: 10, Fluid: "water", DesignFlow: 40}
 	must(Create(ctx, db, rdgLead, wt))
 	f.waterT = wt.ID
 	inst := &Instrument{JobID: f.job, Tag: "Hood 1", Kind: "flow_hood"}
@@ -631,6 +631,34 @@ func TestReadingsList(t *testing.T) {
 			}
 		}
 	})
+}
+
+// TestReadingsConfirmed: a value the technician confirmed keeps that fact in
+// the store, beside its note.
+func TestReadingsConfirmed(t *testing.T) {
+	ctx := context.Background()
+	db := MustOpenDB(t)
+	f := mustReadingsFixture(t, db)
+	far := f.reading(SubjectOutlet, "flow", UnitCFM, 10000)
+	far.Confirmed, far.Note = true, "damper found wide open"
+	plain := f.reading(SubjectOutlet, "flow", UnitCFM, 385)
+	if _, err := db.AddReadings(ctx, rdgLead, f.job, []Reading{far, plain}); err != nil {
+		t.Fatal(err)
+	}
+	got, err := db.Readings(ctx, f.job)
+	if err != nil {
+		t.Fatal(err)
+	}
+	byID := map[string]Reading{}
+	for _, r := range got {
+		byID[r.ID] = r
+	}
+	if r := byID[far.ID]; !r.Confirmed || r.Note != "damper found wide open" {
+		t.Errorf("confirmed reading read back as %+v", r)
+	}
+	if byID[plain.ID].Confirmed {
+		t.Errorf("unconfirmed reading read back as confirmed")
+	}
 }
 
 // TestReadingsConcurrent posts from 10 goroutines at once: each its own

@@ -16,21 +16,23 @@ import (
 
 // Job is one building or project: the unit of pairing, sync and reporting.
 type Job struct {
-	ID          string     `json:"id"`
-	Name        string     `json:"name"`
-	SiteAddress string     `json:"site_address"`
-	Client      string     `json:"client"`
-	Engineer    string     `json:"engineer"`
-	Contractor  string     `json:"contractor"`
-	TABFirm     string     `json:"tab_firm"`
-	Units       string     `json:"units"`                // "ip" or "si"
-	Elevation   *float64   `json:"elevation,omitempty"`  // site elevation, ft or m
-	Barometric  *float64   `json:"barometric,omitempty"` // measured barometric pressure, psia or kPa (wins over elevation)
-	Tolerances  Tolerances `json:"tolerances"`
-	Status      string     `json:"status"` // "open" or "closed"
-	Seq         int64      `json:"seq"`    // last change sequence number; set by the store
-	CreatedAt   time.Time  `json:"created_at"`
-	UpdatedAt   time.Time  `json:"updated_at"`
+	ID            string     `json:"id"`
+	Name          string     `json:"name"`
+	SiteAddress   string     `json:"site_address"`
+	Client        string     `json:"client"`
+	Engineer      string     `json:"engineer"`
+	Contractor    string     `json:"contractor"`
+	TABFirm       string     `json:"tab_firm"`
+	ProjectNumber string     `json:"project_number"`       // the client's or engineer's project number
+	Units         string     `json:"units"`                // "ip" or "si"
+	Elevation     *float64   `json:"elevation,omitempty"`  // site elevation, ft or m
+	Barometric    *float64   `json:"barometric,omitempty"` // measured barometric pressure, psia or kPa (wins over elevation)
+	Tolerances    Tolerances `json:"tolerances"`
+	Status        string     `json:"status"` // "open" or "closed"
+	Remarks       string     `json:"remarks"`
+	Seq           int64      `json:"seq"` // last change sequence number; set by the store
+	CreatedAt     time.Time  `json:"created_at"`
+	UpdatedAt     time.Time  `json:"updated_at"`
 }
 
 // Tolerances are the job's balancing bands, each the allowed deviation below or
@@ -68,6 +70,7 @@ type Instrument struct {
 	AccuracyPct    float64 `json:"accuracy_pct"`    // ± % of reading
 	AccuracyAbs    float64 `json:"accuracy_abs"`    // ± in AccuracyUnit
 	AccuracyUnit   string  `json:"accuracy_unit"`   // unit of AccuracyAbs, e.g. "cfm", "°F", "%RH"
+	Remarks        string  `json:"remarks"`
 	recordMeta
 }
 
@@ -85,6 +88,7 @@ type System struct {
 	Name     string       `json:"name"`
 	Location string       `json:"location"`
 	Design   SystemDesign `json:"design"`
+	Remarks  string       `json:"remarks"`
 	recordMeta
 }
 
@@ -106,6 +110,22 @@ type SystemDesign struct {
 	MotorRPM       float64 `json:"motor_rpm"`
 	WaterFlow      float64 `json:"water_flow"`     // pumps and loops: gpm or L/s
 	PerfTableCSV   string  `json:"perf_table_csv"` // manufacturer's performance table, measure.ParsePerfTableCSV format
+
+	// Nameplate and drive, as read off the equipment; all optional.
+	Make             string  `json:"make"`
+	Model            string  `json:"model"`
+	Serial           string  `json:"serial"`
+	MotorMake        string  `json:"motor_make"`
+	MotorFrame       string  `json:"motor_frame"`
+	ServiceFactor    float64 `json:"service_factor"`     // 1 to 2; 0 not given
+	FanSheaveSize    string  `json:"fan_sheave_size"`    // as stamped, e.g. "2B5V124"
+	FanSheavePitch   float64 `json:"fan_sheave_pitch"`   // pitch diameter, in or mm
+	MotorSheaveSize  string  `json:"motor_sheave_size"`  // as stamped, e.g. "2VP60 adjustable"
+	MotorSheavePitch float64 `json:"motor_sheave_pitch"` // pitch diameter as set, in or mm
+	Belts            string  `json:"belts"`              // number and size, e.g. "2 × B55"
+	FanBushing       string  `json:"fan_bushing"`
+	MotorBushing     string  `json:"motor_bushing"`
+	Filters          string  `json:"filters"` // number, size and grade, e.g. "8 × 24×24×2 MERV 13"
 }
 
 // Outlet is a supply, return, exhaust or outdoor-air terminal on a system.
@@ -121,6 +141,7 @@ type Outlet struct {
 	Method     string  `json:"method"` // "hood" (reading × factor) or "ak" (velocity × Ak)
 	Factor     float64 `json:"factor"` // hood correction factor; 1 when none
 	Ak         float64 `json:"ak"`     // effective area, ft² or m² (method ak)
+	Remarks    string  `json:"remarks"`
 	recordMeta
 }
 
@@ -143,6 +164,7 @@ type Traverse struct {
 	PointsH           int     `json:"points_h"`
 	PointsPerDiameter int     `json:"points_per_diameter"`
 	Diameters         int     `json:"diameters"`
+	Remarks           string  `json:"remarks"`
 	recordMeta
 }
 
@@ -156,6 +178,7 @@ type CapacityTest struct {
 	FlowSource string `json:"flow_source"` // "traverse", "outlets" or "direct"
 	TraverseID string `json:"traverse_id"` // flow_source traverse
 	FlowBasis  string `json:"flow_basis"`  // "standard", "enter" or "leave" for a direct reading
+	Remarks    string `json:"remarks"`
 	recordMeta
 }
 
@@ -165,12 +188,14 @@ type WaterTest struct {
 	JobID         string  `json:"job_id"`
 	SystemID      string  `json:"system_id"`
 	Tag           string  `json:"tag"`         // coil or circuit tag, e.g. "CHW coil AHU-1"
+	Mode          string  `json:"mode"`        // "cooling" or "heating": what the coil or circuit does
 	FlowSource    string  `json:"flow_source"` // "valve" (Cv and ΔP) or "meter"
 	ValveCv       float64 `json:"valve_cv"`
 	Fluid         string  `json:"fluid"`         // "water", "pg" or "eg"
 	Concentration float64 `json:"concentration"` // % by volume, glycols
 	DesignFlow    float64 `json:"design_flow"`   // gpm or L/s
 	CapacityTest  string  `json:"capacity_test_id"`
+	Remarks       string  `json:"remarks"`
 	recordMeta
 }
 
@@ -202,7 +227,8 @@ type Reading struct {
 	ReceivedAt   time.Time `json:"received_at"`
 	Supersedes   string    `json:"supersedes"`
 	Void         bool      `json:"void"`
-	Note         string    `json:"note"`
+	Note         string    `json:"note"`      // the technician's remark (damper position, access)
+	Confirmed    bool      `json:"confirmed"` // the technician confirmed a value far from design or its neighbours
 	Seq          int64     `json:"seq"`
 }
 

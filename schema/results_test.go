@@ -606,7 +606,7 @@ func TestResultsWater(t *testing.T) {
 	build := func(source string) (*resBuilder, *WaterTest) {
 		b := newResBuilder("ip")
 		sys := b.system("AHU-1", SystemDesign{})
-		b.s.WaterTests = append(b.s.WaterTests, WaterTest{ID: b.id(), JobID: b.s.Job.ID, SystemID: sys.ID, Tag: "CHW-1",
+		b.s.WaterTests = append(b.s.WaterTests, WaterTest{ID: b.id(), JobID: b.s.Job.ID, SystemID: sys.ID, Tag: "CHW-1", Mode: "cooling",
 			FlowSource: source, ValveCv: 10, Fluid: "water", DesignFlow: 20})
 		return b, &b.s.WaterTests[0]
 	}
@@ -659,7 +659,7 @@ func TestResultsWater(t *testing.T) {
 		b, _, ct := resCapacityJob(80000)
 		resReadCapacity(b, ct, "", "", "")
 		b.s.WaterTests = append(b.s.WaterTests, WaterTest{ID: b.id(), JobID: b.s.Job.ID, SystemID: ct.SystemID,
-			Tag: "CHW-1", FlowSource: "meter", Fluid: "water", DesignFlow: 16, CapacityTest: ct.ID})
+			Tag: "CHW-1", Mode: "cooling", FlowSource: "meter", Fluid: "water", DesignFlow: 16, CapacityTest: ct.ID})
 		wt := &b.s.WaterTests[0]
 		b.read(SubjectWaterTest, wt.ID, "flow", 0, 16, UnitGPM, StageFinal, "")
 		b.read(SubjectWaterTest, wt.ID, "enter_temp", 0, 44, UnitDegF, StageFinal, "")
@@ -866,7 +866,7 @@ func resBenchSnapshot() *Snapshot {
 			b.read(SubjectCapacityTest, ct, r[0].(string), 0, r[1].(float64), UnitDegF, StageFinal, thermo)
 		}
 		b.s.WaterTests = append(b.s.WaterTests, WaterTest{ID: b.id(), JobID: b.s.Job.ID, SystemID: sysID,
-			Tag: fmt.Sprintf("CHW-%d", s), FlowSource: "valve", ValveCv: 12, Fluid: "pg", Concentration: 30, DesignFlow: 24,
+			Tag: fmt.Sprintf("CHW-%d", s), Mode: "cooling", FlowSource: "valve", ValveCv: 12, Fluid: "pg", Concentration: 30, DesignFlow: 24,
 			CapacityTest: ct})
 		wt := b.s.WaterTests[len(b.s.WaterTests)-1].ID
 		b.read(SubjectWaterTest, wt, "dp", 0, 4, UnitPsi, StageFinal, "")

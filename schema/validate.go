@@ -22,6 +22,8 @@ const (
 	maxTagLen      = 40
 	maxNameLen     = 200
 	maxUnitLen     = 20
+	maxRemarksLen  = 500
+	maxPlateLen    = 80        // a nameplate or drive entry
 	maxPerfCSVSize = 256 << 10 // bytes
 )
 
@@ -53,6 +55,8 @@ var (
 	rangeCapacity    = unitRange{0, 100_000_000, "Btu/h", 0, 30_000_000, "W"}
 	rangeMotor       = unitRange{0, 2_000, "hp", 0, 1_500, "kW"}
 	rangeWaterFlow   = unitRange{0, 100_000, "gpm", 0, 6_300, "L/s"}
+	rangeSheave      = unitRange{0, 80, "in", 0, 2_000, "mm"}  // pitch diameter; 0 not given
+	rangeServiceF    = [2]float64{1, 2}                        // motor service factor, when given
 	rangeValveCoeff  = unitRange{0, 10_000, "", 0, 10_000, ""} // Cv (IP) or Kv (SI)
 	rangeFactor      = [2]float64{0.2, 5}                      // flow-hood correction factor, as measure.OutletFlowHood
 	rangeConc        = [2]float64{10, 60}                      // glycol, % by volume: the ASHRAE tables' span
@@ -73,6 +77,7 @@ var (
 	capacityFlowBases   = []string{"standard", "enter", "leave"}
 	waterFlowSources    = []string{"valve", "meter"}
 	waterFluids         = []string{"water", "pg", "eg"}
+	waterModes          = []string{"cooling", "heating"}
 )
 
 // Job status values.
@@ -115,6 +120,8 @@ func (j *Job) Validate() error {
 		textField{"engineer", j.Engineer, false, maxNameLen},
 		textField{"contractor", j.Contractor, false, maxNameLen},
 		textField{"tab_firm", j.TABFirm, false, maxNameLen},
+		textField{"project_number", j.ProjectNumber, false, maxPlateLen},
+		textField{"remarks", j.Remarks, false, maxRemarksLen},
 	); err != nil {
 		return err
 	}
@@ -167,6 +174,7 @@ func (r *Instrument) Validate() error {
 		textField{"model", r.Model, false, maxNameLen},
 		textField{"serial", r.Serial, false, maxNameLen},
 		textField{"accuracy_unit", r.AccuracyUnit, false, maxUnitLen},
+		textField{"remarks", r.Remarks, false, maxRemarksLen},
 	); err != nil {
 		return err
 	}
@@ -218,6 +226,7 @@ func (r *System) Validate(u measure.UnitSystem) error {
 		textField{"tag", r.Tag, true, maxTagLen},
 		textField{"name", r.Name, false, maxNameLen},
 		textField{"location", r.Location, false, maxNameLen},
+		textField{"remarks", r.Remarks, false, maxRemarksLen},
 	); err != nil {
 		return err
 	}
@@ -270,6 +279,9 @@ func (d *SystemDesign) validate(u measure.UnitSystem) error {
 		return Errorf(Invalid, "design.rated_sensible", "%s %s is more than the rated total %s %s; sensible capacity is part of the total",
 			fmtValue(d.RatedSensible), capUnit, fmtValue(d.RatedTotal), capUnit)
 	}
+	if err := d.validatePlate(u); err != nil {
+		return err
+	}
 	if d.Phase != 0 && d.Phase != 1 && d.Phase != 3 {
 		return Errorf(Invalid, "design.phase", "%d is not accepted; accepted values are 1 and 3 (0 for not given)", d.Phase)
 	}
@@ -282,6 +294,36 @@ func (d *SystemDesign) validate(u measure.UnitSystem) error {
 		}
 	}
 	return nil
+}
+
+// validatePlate checks the nameplate and drive entries: texts of at most 80
+// characters, service_factor 0 (not given) or 1 to 2, and the sheave pitch
+// diameters 0 (not given) to 80 in (2,000 mm).
+func (d *SystemDesign) validatePlate(u measure.UnitSystem) error {
+	if err := checkTexts(
+		textField{"design.make", d.Make, false, maxPlateLen},
+		textField{"design.model", d.Model, false, maxPlateLen},
+		textField{"design.serial", d.Serial, false, maxPlateLen},
+		textField{"design.motor_make", d.MotorMake, false, maxPlateLen},
+		textField{"design.motor_frame", d.MotorFrame, false, maxPlateLen},
+		textField{"design.fan_sheave_size", d.FanSheaveSize, false, maxPlateLen},
+		textField{"design.motor_sheave_size", d.MotorSheaveSize, false, maxPlateLen},
+		textField{"design.belts", d.Belts, false, maxPlateLen},
+		textField{"design.fan_bushing", d.FanBushing, false, maxPlateLen},
+		textField{"design.motor_bushing", d.MotorBushing, false, maxPlateLen},
+		textField{"design.filters", d.Filters, false, maxNameLen},
+	); err != nil {
+		return err
+	}
+	if d.ServiceFactor != 0 {
+		if err := checkRangeOf("design.service_factor", d.ServiceFactor, rangeServiceF[0], rangeServiceF[1], ""); err != nil {
+			return err
+		}
+	}
+	if err := checkUnitRange("design.fan_sheave_pitch", d.FanSheavePitch, rangeSheave, u); err != nil {
+		return err
+	}
+	return checkUnitRange("design.motor_sheave_pitch", d.MotorSheavePitch, rangeSheave, u)
 }
 
 // Validate checks an outlet in unit system u: system_id (required), tag
@@ -304,6 +346,7 @@ func (r *Outlet) Validate(u measure.UnitSystem) error {
 		textField{"tag", r.Tag, true, maxTagLen},
 		textField{"room", r.Room, false, maxNameLen},
 		textField{"size", r.Size, false, maxTagLen},
+		textField{"remarks", r.Remarks, false, maxRemarksLen},
 	); err != nil {
 		return err
 	}
@@ -348,6 +391,7 @@ func (r *Traverse) Validate(u measure.UnitSystem) error {
 	if err := checkTexts(
 		textField{"tag", r.Tag, true, maxTagLen},
 		textField{"location", r.Location, false, maxNameLen},
+		textField{"remarks", r.Remarks, false, maxRemarksLen},
 	); err != nil {
 		return err
 	}
@@ -410,7 +454,7 @@ func (r *CapacityTest) Validate() error {
 	if err := checkRequiredID("system_id", r.SystemID); err != nil {
 		return err
 	}
-	if err := checkTexts(textField{"tag", r.Tag, true, maxTagLen}); err != nil {
+	if err := checkTexts(textField{"tag", r.Tag, true, maxTagLen}, textField{"remarks", r.Remarks, false, maxRemarksLen}); err != nil {
 		return err
 	}
 	if err := checkKind("mode", r.Mode, capacityModes); err != nil {
@@ -435,6 +479,7 @@ func (r *CapacityTest) Validate() error {
 }
 
 // Validate checks a water test in unit system u: system_id and tag (required),
+// mode ("cooling" or "heating", required: the results and cautions follow it),
 // flow_source ("valve" or "meter"), valve_cv (the valve's Cv in an IP job, Kv
 // in an SI job: above 0, at most 10,000; required for a valve, 0 or in range
 // otherwise), fluid ("water", "pg" or "eg"), concentration (10 to 60 % by
@@ -451,7 +496,10 @@ func (r *WaterTest) Validate(u measure.UnitSystem) error {
 	if err := checkRequiredID("system_id", r.SystemID); err != nil {
 		return err
 	}
-	if err := checkTexts(textField{"tag", r.Tag, true, maxTagLen}); err != nil {
+	if err := checkTexts(textField{"tag", r.Tag, true, maxTagLen}, textField{"remarks", r.Remarks, false, maxRemarksLen}); err != nil {
+		return err
+	}
+	if err := checkKind("mode", r.Mode, waterModes); err != nil {
 		return err
 	}
 	if err := checkKind("flow_source", r.FlowSource, waterFlowSources); err != nil {

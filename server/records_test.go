@@ -31,7 +31,7 @@ func TestRecords(t *testing.T) {
 			"diameter": 18, "points_per_diameter": 6, "diameters": 2}, "location", "Main supply riser", "shape", "oval"},
 		{"capacity-tests", "capacity_tests", map[string]any{"system_id": f.system, "tag": "CT-1", "mode": "cooling", "flow_source": "direct", "flow_basis": "standard"},
 			"mode", "heating", "flow_source", "guess"},
-		{"water-tests", "water_tests", map[string]any{"system_id": f.system, "tag": "CHW coil", "flow_source": "valve", "valve_cv": 10, "fluid": "water", "design_flow": 40},
+		{"water-tests", "water_tests", map[string]any{"system_id": f.system, "tag": "CHW coil", "mode": "cooling", "flow_source": "valve", "valve_cv": 10, "fluid": "water", "design_flow": 40},
 			"valve_cv", 12.5, "fluid", "lemonade"},
 	}
 	for _, k := range kinds {
