@@ -24,6 +24,9 @@ command -v npm >/dev/null 2>&1 || missing+=(npm)
 # qpdf (report/report_test.go); under CI they fail rather than skip without them.
 command -v pdftotext >/dev/null 2>&1 || missing+=(poppler-utils)
 command -v qpdf >/dev/null 2>&1 || missing+=(qpdf)
+# The store must survive an outside sqlite3 client reading it while fieldtab
+# runs (schema/durable_test.go); the test opens it with Debian's sqlite3 tool.
+command -v sqlite3 >/dev/null 2>&1 || missing+=(sqlite3)
 if [ "${#missing[@]}" -gt 0 ]; then
 	if [ "$(id -u)" -ne 0 ]; then
 		echo "test.sh: missing ${missing[*]}; run as root, or: sudo apt-get install -y ${missing[*]}" >&2

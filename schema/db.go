@@ -53,6 +53,7 @@ type DB struct {
 
 	bootID  string
 	durable durableSeqs
+	files   heldFiles // descriptors Sync uses; see heldFiles
 }
 
 // Open opens (creating if needed, with mode 0600) the store at path, applies any
@@ -161,6 +162,7 @@ func (db *DB) Close() error {
 	if db.write != nil {
 		errs = append(errs, db.write.Close())
 	}
+	errs = append(errs, db.files.close())
 	return errors.Join(errs...)
 }
 

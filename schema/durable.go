@@ -67,7 +67,7 @@ func (db *DB) Sync(ctx context.Context) error {
 		return fmt.Errorf("sync %s: checkpoint: %w", db.Path, err)
 	}
 	for _, name := range []string{db.Path + "-wal", db.Path} {
-		if err := syncFile(name); err != nil {
+		if err := db.files.sync(name); err != nil {
 			return fmt.Errorf("sync %s: %w", db.Path, err)
 		}
 	}
@@ -77,9 +77,36 @@ func (db *DB) Sync(ctx context.Context) error {
 	return nil
 }
 
-// syncFile fsyncs a file by name. A missing WAL (just truncated by a
-// checkpoint) has nothing to sync.
-func syncFile(name string) error {
+// heldFiles keeps one descriptor of each store file open for the life of the
+// store, to fsync through. Closing any descriptor of a file drops every POSIX
+// lock this process holds on it, SQLite's included: a loop that opened and
+// closed the files by name let an outside sqlite3 client believe it was the
+// file's last user, so it checkpointed and deleted the WAL the server was
+// still writing, and acknowledged readings went with it.
+type heldFiles struct {
+	mu    sync.Mutex
+	files map[string]*os.File
+}
+
+// sync fsyncs the file called name through the held descriptor, opening it the
+// first time. A missing file (no WAL yet) has nothing to sync. A file removed
+// and made anew is another inode: its old descriptor is closed, which drops
+// no lock on the new one.
+func (h *heldFiles) sync(name string) error {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	if f := h.files[name]; f != nil {
+		held, errHeld := f.Stat()
+		now, errNow := os.Stat(name)
+		switch {
+		case errors.Is(errNow, os.ErrNotExist):
+			return nil
+		case errHeld == nil && errNow == nil && os.SameFile(held, now):
+			return f.Sync()
+		}
+		f.Close()
+		delete(h.files, name)
+	}
 	f, err := os.OpenFile(name, os.O_RDWR, 0)
 	if errors.Is(err, os.ErrNotExist) {
 		return nil
@@ -87,12 +114,39 @@ func syncFile(name string) error {
 	if err != nil {
 		return err
 	}
-	defer f.Close()
+	if h.files == nil {
+		h.files = map[string]*os.File{}
+	}
+	h.files[name] = f
 	return f.Sync()
+}
+
+// close closes the held descriptors; the store calls it after SQLite has
+// closed its own, so no lock of SQLite's is dropped early.
+func (h *heldFiles) close() error {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	var errs []error
+	for name, f := range h.files {
+		errs = append(errs, f.Close())
+		delete(h.files, name)
+	}
+	return errors.Join(errs...)
 }
 
 func newBootID() string {
 	b := make([]byte, 8)
 	_, _ = rand.Read(b) // crypto/rand.Read does not fail on Linux
 	return hex.EncodeToString(b)
+}
+
+// syncFile fsyncs a file that no connection of the store holds open (a
+// finished backup), by name.
+func syncFile(name string) error {
+	f, err := os.OpenFile(name, os.O_RDWR, 0)
+	if err != nil {
+		return err
+	}
+	defer f.Close()
+	return f.Sync()
 }
