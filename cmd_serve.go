@@ -105,6 +105,7 @@ func (m *Main) runServe(ctx context.Context, args []string, demo bool) error {
 	if err := srv.Open(); err != nil {
 		return err
 	}
+	srv.SetLANAddrs(joinAddrs(*addr, srv.Port()))
 	m.printJoinInfo(srv, db.Path)
 	<-ctx.Done()
 	fmt.Fprintln(m.Stdout, "Shutting down: finishing requests in flight…")
@@ -117,20 +118,10 @@ func (m *Main) runServe(ctx context.Context, args []string, demo bool) error {
 func (m *Main) printJoinInfo(srv *server.Server, dbPath string) {
 	port := srv.Port()
 	fmt.Fprintf(m.Stdout, "fieldtab is serving the store %s\n", dbPath)
-	urls := []string{fmt.Sprintf("http://localhost:%d/", port)}
-	hosts := lanAddresses()
-	if host, _, err := net.SplitHostPort(srv.Addr); err == nil && host != "" && host != "0.0.0.0" && host != "::" {
-		hosts = []string{host} // bound to one address: only that one answers
-		if ip := net.ParseIP(host); ip != nil && ip.IsLoopback() {
-			hosts = nil
-		}
-	}
-	for _, ip := range hosts {
-		urls = append(urls, fmt.Sprintf("http://%s/", net.JoinHostPort(ip, strconv.Itoa(port))))
-	}
 	fmt.Fprintln(m.Stdout, "Open the field app on a phone or tablet on the same network at:")
-	for _, u := range urls {
-		fmt.Fprintln(m.Stdout, "  "+u)
+	fmt.Fprintf(m.Stdout, "  http://localhost:%d/\n", port)
+	for _, hp := range srv.LANAddrs() {
+		fmt.Fprintf(m.Stdout, "  http://%s/\n", hp)
 	}
 	lead, leadExp, err1 := srv.NewJoinCode(schema.RoleLead)
 	crew, crewExp, err2 := srv.NewJoinCode(schema.RoleTechnician)
@@ -140,11 +131,38 @@ func (m *Main) printJoinInfo(srv *server.Server, dbPath string) {
 	}
 	fmt.Fprintf(m.Stdout, "Lead join code:  %s  (one device, until %s)\n", lead, leadExp.Local().Format("15:04"))
 	fmt.Fprintf(m.Stdout, "Crew join code:  %s  (any number of devices, until %s)\n", crew, crewExp.Local().Format("15:04"))
-	target := urls[len(urls)-1] + "#join=" + strings.ReplaceAll(crew, "-", "")
-	if qr, err := qrcode.New(target, qrcode.Medium); err == nil {
-		fmt.Fprintf(m.Stdout, "Scan to join the crew (%s):\n%s", target, qr.ToSmallString(false))
+	if urls, note := server.JoinURLs("", srv.LANAddrs()); len(urls) == 0 {
+		fmt.Fprintln(m.Stdout, "No join link: "+note+".")
+	} else {
+		m.printQR("Scan to join the crew", server.JoinLink(urls[0], crew))
 	}
+	fmt.Fprintln(m.Stdout, "New codes: fieldtab join-code --role lead|technician, or the app's lead screen.")
 	fmt.Fprintln(m.Stdout, "Safety: roof, ladder, rotating-equipment and live-electrical work follow the site's safety plan; fieldtab records readings, it does not make the work safe.")
+}
+
+// printQR prints a join link and its QR code in the terminal.
+func (m *Main) printQR(what, link string) {
+	if qr, err := qrcode.New(link, qrcode.Medium); err == nil {
+		fmt.Fprintf(m.Stdout, "%s (%s):\n%s", what, link, qr.ToSmallString(false))
+	}
+}
+
+// joinAddrs are the host:port addresses phones can reach a server on that
+// listens at addr (host:port) on port: the one address it is bound to, or
+// every LAN address when it listens on all of them. A loopback bind has none.
+func joinAddrs(addr string, port int) []string {
+	hosts := lanAddresses()
+	if host, _, err := net.SplitHostPort(addr); err == nil && host != "" && host != "0.0.0.0" && host != "::" {
+		hosts = []string{host} // bound to one address: only that one answers
+		if ip := net.ParseIP(host); (ip != nil && ip.IsLoopback()) || strings.EqualFold(host, "localhost") {
+			hosts = nil
+		}
+	}
+	out := make([]string, 0, len(hosts))
+	for _, h := range hosts {
+		out = append(out, net.JoinHostPort(h, strconv.Itoa(port)))
+	}
+	return out
 }
 
 // lanAddresses lists this machine's non-loopback IPv4 addresses, the ones a
