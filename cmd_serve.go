@@ -73,13 +73,17 @@ func newFlagSet(name string, stderr io.Writer) *flag.FlagSet {
 // runServe starts the field server and blocks until ctx ends (SIGINT/SIGTERM),
 // then shuts down gracefully, letting in-flight writes finish.
 func (m *Main) runServe(ctx context.Context, args []string, demo bool) error {
-	fs := newFlagSet("serve", m.Stderr)
+	name, about := "serve", "Run the field server: phones and tablets on the same network open the app at its address and join with a code."
+	if demo {
+		name, about = "demo", "Run the field server with the demo job loaded (same as serve --demo)."
+	}
+	fs := newFlagSet(name, m.Stderr)
 	dbPath := fs.String("db", "", "SQLite store (default: fieldtab/fieldtab.db in the user's data directory)")
 	addr := fs.String("addr", ":"+strconv.Itoa(defaultPort), "listen address host:port (default: every interface, so phones on the site Wi-Fi can join)")
 	demoFlag := fs.Bool("demo", demo, "load the demo job if the store has none")
 	signerDir := fs.String("signer-dir", "", "directory of the signer's key and certificate, for reports signed from the app (default: fieldtab in the user's config directory)")
-	if err := fs.Parse(args); err != nil {
-		return errUsage
+	if err := m.parseFlags(fs, name+" [--db PATH] [--addr HOST:PORT] [--signer-dir DIR]", about, args); err != nil {
+		return err
 	}
 	db, err := openDB(ctx, *dbPath)
 	if err != nil {
@@ -186,16 +190,22 @@ func lanAddresses() []string {
 // runDevice handles `fieldtab device add --db X --name N --role R`, printing a
 // token for scripts.
 func (m *Main) runDevice(ctx context.Context, args []string) error {
+	const synopsis = "device add [--db PATH] --name NAME --role lead|technician"
+	const about = "Add a device and print its bearer token on stdout, for scripts; the token is shown once."
+	if wantsHelp(args) {
+		fmt.Fprintf(m.Stdout, "usage: fieldtab %s\n\n%s\n", synopsis, about)
+		return errHelp
+	}
 	if len(args) == 0 || args[0] != "add" {
-		fmt.Fprintln(m.Stderr, "usage: fieldtab device add [--db PATH] --name NAME --role lead|technician")
+		fmt.Fprintf(m.Stderr, "usage: fieldtab %s\n", synopsis)
 		return errUsage
 	}
 	fs := newFlagSet("device add", m.Stderr)
 	dbPath := fs.String("db", "", "SQLite store (default: the user's data directory)")
 	name := fs.String("name", "", "device name, e.g. \"script on the lead's laptop\"")
 	role := fs.String("role", schema.RoleTechnician, "lead or technician")
-	if err := fs.Parse(args[1:]); err != nil {
-		return errUsage
+	if err := m.parseFlags(fs, synopsis, about, args[1:]); err != nil {
+		return err
 	}
 	db, err := openDB(ctx, *dbPath)
 	if err != nil {
@@ -216,8 +226,8 @@ func (m *Main) runBackup(ctx context.Context, args []string) error {
 	fs := newFlagSet("backup", m.Stderr)
 	dbPath := fs.String("db", "", "SQLite store (default: the user's data directory)")
 	out := fs.String("out", "", "backup file to write (must not exist)")
-	if err := fs.Parse(args); err != nil {
-		return errUsage
+	if err := m.parseFlags(fs, "backup [--db PATH] --out FILE", "Copy the store safely while serve is using it.", args); err != nil {
+		return err
 	}
 	if *out == "" {
 		fmt.Fprintln(m.Stderr, "fieldtab backup: --out is required")
