@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"net"
 	"net/http"
+	"slices"
 	"strings"
 	"sync"
 	"time"
@@ -105,22 +106,27 @@ func (s *Server) NewJoinCode(role string) (string, time.Time, error) {
 	return s.DB.CreateJoinCode(context.Background(), schema.Actor{Name: "server", Role: schema.RoleLead}, role, s.now())
 }
 
-// limited answers 429 when client has guessed wrong too often lately.
-func (p *pairing) limited(client string) error {
+// attempt counts a pairing attempt against client before its code is
+// checked, so that guesses sent in parallel cannot slip past the limit, or
+// answers 429 when client has guessed wrong too often lately. Call forget
+// when the code turned out right (or was never looked at).
+func (p *pairing) attempt(client string) (forget func(), err error) {
 	p.mu.Lock()
 	defer p.mu.Unlock()
-	if p.tooMany(client, p.now()) {
-		return &httpError{status: http.StatusTooManyRequests, field: "code",
+	now := p.now()
+	if p.tooMany(client, now) {
+		return nil, &httpError{status: http.StatusTooManyRequests, field: "code",
 			msg: "too many wrong join codes; wait a minute and ask the lead for the current code"}
 	}
-	return nil
-}
-
-// failed counts a wrong guess against client.
-func (p *pairing) failed(client string) {
-	p.mu.Lock()
-	defer p.mu.Unlock()
-	p.failures[client] = append(p.failures[client], p.now())
+	p.failures[client] = append(p.failures[client], now)
+	return func() {
+		p.mu.Lock()
+		defer p.mu.Unlock()
+		ts := p.failures[client]
+		if i := slices.IndexFunc(ts, now.Equal); i >= 0 {
+			p.failures[client] = slices.Delete(ts, i, i+1)
+		}
+	}, nil
 }
 
 func (p *pairing) tooMany(client string, now time.Time) bool {
@@ -178,16 +184,16 @@ func (s *Server) handlePair(w http.ResponseWriter, r *http.Request) {
 	if err != nil {
 		host = r.RemoteAddr
 	}
-	client := guessClient(host)
-	if err := s.pairing.limited(client); err != nil {
+	forget, err := s.pairing.attempt(guessClient(host))
+	if err != nil {
 		s.writeError(w, r, err)
 		return
 	}
 	d, token, err := s.DB.PairDevice(r.Context(), req.Code, req.Name, s.now())
+	if schema.ErrorCode(err) != schema.Unauthorized {
+		forget() // only a wrong code counts as a guess
+	}
 	if err != nil {
-		if schema.ErrorCode(err) == schema.Unauthorized {
-			s.pairing.failed(client)
-		}
 		s.writeError(w, r, err)
 		return
 	}
