@@ -48,11 +48,17 @@ func calcCommands() []*calcCommand {
 
 func (m *Main) runCalc(ctx context.Context, args []string) error {
 	cmds := calcCommands()
-	if len(args) == 0 || args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
-		m.calcUsage(cmds, args)
-		if len(args) == 0 {
-			return errUsage
-		}
+	if len(args) == 0 {
+		m.calcUsage(m.Stderr, cmds, args)
+		return errUsage
+	}
+	if isHelp(args[0]) {
+		m.calcUsage(m.Stdout, cmds, args)
+		return nil
+	}
+	// `calc psychro --help` is `calc help psychro`.
+	if len(args) > 1 && slices.ContainsFunc(args[1:], func(a string) bool { return isHelp(a) && a != "help" }) {
+		m.calcUsage(m.Stdout, cmds, []string{"help", args[0]})
 		return nil
 	}
 	var cmd *calcCommand
@@ -63,7 +69,7 @@ func (m *Main) runCalc(ctx context.Context, args []string) error {
 	}
 	if cmd == nil {
 		fmt.Fprintf(m.Stderr, "fieldtab calc: unknown calculation %q\n", args[0])
-		m.calcUsage(cmds, nil)
+		m.calcUsage(m.Stderr, cmds, nil)
 		return errUsage
 	}
 	specs := append(append([]flagSpec{}, commonFlags...), cmd.flags...)
@@ -283,19 +289,19 @@ func batchError(line int, err error) *obj {
 	return o
 }
 
-func (m *Main) calcUsage(cmds []*calcCommand, args []string) {
+func (m *Main) calcUsage(w io.Writer, cmds []*calcCommand, args []string) {
 	if len(args) > 1 {
 		for _, c := range cmds {
 			if c.name == args[1] {
-				fmt.Fprintf(m.Stderr, "usage: fieldtab calc %s [flags]\n%s\n\nflags:\n", c.name, c.summary)
-				printFlags(m.Stderr, append(append([]flagSpec{}, c.flags...), commonFlags...))
+				fmt.Fprintf(w, "usage: fieldtab calc %s [flags]\n%s\n\nflags:\n", c.name, c.summary)
+				printFlags(w, append(append([]flagSpec{}, c.flags...), commonFlags...))
 				return
 			}
 		}
 	}
-	fmt.Fprint(m.Stderr, "usage: fieldtab calc <calculation> [flags]   (fieldtab calc help <calculation> for its flags)\n\ncalculations:\n")
+	fmt.Fprint(w, "usage: fieldtab calc <calculation> [flags]   (fieldtab calc help <calculation> for its flags)\n\ncalculations:\n")
 	for _, c := range cmds {
-		fmt.Fprintf(m.Stderr, "  %-10s %s\n", c.name, c.summary)
+		fmt.Fprintf(w, "  %-10s %s\n", c.name, c.summary)
 	}
 }
 

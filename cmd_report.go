@@ -5,6 +5,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"strings"
 	"time"
@@ -26,8 +27,11 @@ func (m *Main) runReport(ctx context.Context, args []string) error {
 	name := fs.String("name", "", "the signer's name on the sign-off page (default: the certificate's name)")
 	cert := fs.String("certification", "", "the signer's certification or licence number, for the sign-off page")
 	location := fs.String("location", "", "where the report is signed, for the digital signature")
-	if err := fs.Parse(args); err != nil {
-		return errUsage
+	sigFile := fs.String("signature", "", "PNG image of the signer's drawn signature, for the sign-off page (default: a line to sign on)")
+	org := fs.String("organisation", "", "the signer's firm on the sign-off page (default: the certificate's organisation)")
+	if err := m.parseFlags(fs, "report --job ID --out FILE.pdf [--db PATH] [--sign [--signature FILE.png] [--name NAME] [--certification TEXT] [--organisation TEXT]]",
+		"Write the job's closeout report: an unsigned preview, or with --sign the next revision, signed and stored. `fieldtab job list` shows each job's ID.", args); err != nil {
+		return err
 	}
 	switch {
 	case fs.NArg() > 0:
@@ -39,9 +43,16 @@ func (m *Main) runReport(ctx context.Context, args []string) error {
 	case *out == "":
 		fmt.Fprintln(m.Stderr, "fieldtab report: --out is required")
 		return errUsage
-	case !*signIt && (*name != "" || *cert != "" || *signerDir != "" || *location != ""):
-		fmt.Fprintln(m.Stderr, "fieldtab report: --name, --certification, --location and --signer-dir go with --sign")
+	case !*signIt && (*name != "" || *cert != "" || *signerDir != "" || *location != "" || *sigFile != "" || *org != ""):
+		fmt.Fprintln(m.Stderr, "fieldtab report: --name, --certification, --organisation, --signature, --location and --signer-dir go with --sign")
 		return errUsage
+	}
+	var sigPNG []byte
+	if *sigFile != "" {
+		var err error
+		if sigPNG, err = readSignaturePNG(*sigFile); err != nil {
+			return err
+		}
 	}
 	// The signer first, so that a missing key fails before a long render.
 	var signer report.Signer
@@ -70,8 +81,10 @@ func (m *Main) runReport(ctx context.Context, args []string) error {
 	}
 	snap, revision := in.Snapshot, in.Revision
 	if *signIt {
-		in.Signoff = &report.Signoff{Name: signer.Name, Certification: *cert, SignedAt: now}
-		if o := signer.Certificate.Subject.Organization; len(o) > 0 {
+		// As the app's sign-off (server handleReportSign) does.
+		in.Signoff = &report.Signoff{Name: signer.Name, Certification: strings.TrimSpace(*cert),
+			Organisation: strings.TrimSpace(*org), SignedAt: now, SignaturePNG: sigPNG}
+		if o := signer.Certificate.Subject.Organization; in.Signoff.Organisation == "" && len(o) > 0 {
 			in.Signoff.Organisation = o[0]
 		}
 	}
@@ -102,6 +115,9 @@ func (m *Main) runReport(ctx context.Context, args []string) error {
 	t0 := time.Now()
 	rec, signed, err := report.Issue(ctx, db, schema.Actor{Name: signer.Name + " (command line)", Role: schema.RoleLead}, in, signer)
 	if err != nil {
+		if schema.ErrorField(err) == "signoff.signature_png" {
+			return fmt.Errorf("--signature: %s", schema.ErrorMessage(err))
+		}
 		return err
 	}
 	took := time.Since(t0)
@@ -112,6 +128,31 @@ func (m *Main) runReport(ctx context.Context, args []string) error {
 		rec.Revision, snap.Job.Name, signer.Name, *out, len(signed), took.Round(time.Millisecond))
 	fmt.Fprintf(m.Stdout, "  PDF SHA-256:      %s\n  data SHA-256:     %s\n", rec.PDFSHA256, rec.SnapshotSHA256)
 	return nil
+}
+
+// maxSignaturePNG bounds --signature as the server bounds the app's drawn
+// signature.
+const maxSignaturePNG = 512 << 10
+
+// readSignaturePNG reads --signature and checks it as the server checks the
+// app's: a PNG of at most maxSignaturePNG bytes (report.Issue then checks its
+// pixels).
+func readSignaturePNG(path string) ([]byte, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("--signature: %w", err)
+	}
+	defer f.Close()
+	b, err := io.ReadAll(io.LimitReader(f, maxSignaturePNG+1))
+	switch {
+	case err != nil:
+		return nil, fmt.Errorf("--signature: %w", err)
+	case len(b) > maxSignaturePNG:
+		return nil, fmt.Errorf("--signature: %s is larger than %d KB", path, maxSignaturePNG>>10)
+	case !bytes.HasPrefix(b, []byte("\x89PNG\r\n\x1a\n")):
+		return nil, fmt.Errorf("--signature: %s is not a PNG image", path)
+	}
+	return b, nil
 }
 
 // jobErr names --job in a job-not-found error.
@@ -127,9 +168,10 @@ func jobErr(err error) error {
 func (m *Main) runVerify(ctx context.Context, args []string) error {
 	fs := newFlagSet("verify", m.Stderr)
 	dbPath := fs.String("db", "", "also look the file up among the store's issued revisions")
-	pos, err := parseInterleaved(fs, args)
+	pos, err := m.parseFlagsInterleaved(fs, "verify FILE.pdf [--db PATH]",
+		"Check a signed report's digital signature and, with --db, that it is a revision stored in the store.", args)
 	if err != nil {
-		return errUsage
+		return err
 	}
 	if len(pos) != 1 {
 		fmt.Fprintln(m.Stderr, "usage: fieldtab verify FILE.pdf [--db PATH]")

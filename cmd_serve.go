@@ -73,13 +73,17 @@ func newFlagSet(name string, stderr io.Writer) *flag.FlagSet {
 // runServe starts the field server and blocks until ctx ends (SIGINT/SIGTERM),
 // then shuts down gracefully, letting in-flight writes finish.
 func (m *Main) runServe(ctx context.Context, args []string, demo bool) error {
-	fs := newFlagSet("serve", m.Stderr)
+	name, about := "serve", "Run the field server: phones and tablets on the same network open the app at its address and join with a code."
+	if demo {
+		name, about = "demo", "Run the field server with the demo job loaded (same as serve --demo)."
+	}
+	fs := newFlagSet(name, m.Stderr)
 	dbPath := fs.String("db", "", "SQLite store (default: fieldtab/fieldtab.db in the user's data directory)")
 	addr := fs.String("addr", ":"+strconv.Itoa(defaultPort), "listen address host:port (default: every interface, so phones on the site Wi-Fi can join)")
 	demoFlag := fs.Bool("demo", demo, "load the demo job if the store has none")
 	signerDir := fs.String("signer-dir", "", "directory of the signer's key and certificate, for reports signed from the app (default: fieldtab in the user's config directory)")
-	if err := fs.Parse(args); err != nil {
-		return errUsage
+	if err := m.parseFlags(fs, name+" [--db PATH] [--addr HOST:PORT] [--signer-dir DIR]", about, args); err != nil {
+		return err
 	}
 	db, err := openDB(ctx, *dbPath)
 	if err != nil {
@@ -105,6 +109,7 @@ func (m *Main) runServe(ctx context.Context, args []string, demo bool) error {
 	if err := srv.Open(); err != nil {
 		return err
 	}
+	srv.SetLANAddrs(joinAddrs(*addr, srv.Port()))
 	m.printJoinInfo(srv, db.Path)
 	<-ctx.Done()
 	fmt.Fprintln(m.Stdout, "Shutting down: finishing requests in flight…")
@@ -117,20 +122,10 @@ func (m *Main) runServe(ctx context.Context, args []string, demo bool) error {
 func (m *Main) printJoinInfo(srv *server.Server, dbPath string) {
 	port := srv.Port()
 	fmt.Fprintf(m.Stdout, "fieldtab is serving the store %s\n", dbPath)
-	urls := []string{fmt.Sprintf("http://localhost:%d/", port)}
-	hosts := lanAddresses()
-	if host, _, err := net.SplitHostPort(srv.Addr); err == nil && host != "" && host != "0.0.0.0" && host != "::" {
-		hosts = []string{host} // bound to one address: only that one answers
-		if ip := net.ParseIP(host); ip != nil && ip.IsLoopback() {
-			hosts = nil
-		}
-	}
-	for _, ip := range hosts {
-		urls = append(urls, fmt.Sprintf("http://%s/", net.JoinHostPort(ip, strconv.Itoa(port))))
-	}
 	fmt.Fprintln(m.Stdout, "Open the field app on a phone or tablet on the same network at:")
-	for _, u := range urls {
-		fmt.Fprintln(m.Stdout, "  "+u)
+	fmt.Fprintf(m.Stdout, "  http://localhost:%d/\n", port)
+	for _, hp := range srv.LANAddrs() {
+		fmt.Fprintf(m.Stdout, "  http://%s/\n", hp)
 	}
 	lead, leadExp, err1 := srv.NewJoinCode(schema.RoleLead)
 	crew, crewExp, err2 := srv.NewJoinCode(schema.RoleTechnician)
@@ -140,11 +135,38 @@ func (m *Main) printJoinInfo(srv *server.Server, dbPath string) {
 	}
 	fmt.Fprintf(m.Stdout, "Lead join code:  %s  (one device, until %s)\n", lead, leadExp.Local().Format("15:04"))
 	fmt.Fprintf(m.Stdout, "Crew join code:  %s  (any number of devices, until %s)\n", crew, crewExp.Local().Format("15:04"))
-	target := urls[len(urls)-1] + "#join=" + strings.ReplaceAll(crew, "-", "")
-	if qr, err := qrcode.New(target, qrcode.Medium); err == nil {
-		fmt.Fprintf(m.Stdout, "Scan to join the crew (%s):\n%s", target, qr.ToSmallString(false))
+	if urls, note := server.JoinURLs("", srv.LANAddrs()); len(urls) == 0 {
+		fmt.Fprintln(m.Stdout, "No join link: "+note+".")
+	} else {
+		m.printQR("Scan to join the crew", server.JoinLink(urls[0], crew))
 	}
+	fmt.Fprintln(m.Stdout, "New codes: fieldtab join-code --role lead|technician, or the app's lead screen.")
 	fmt.Fprintln(m.Stdout, "Safety: roof, ladder, rotating-equipment and live-electrical work follow the site's safety plan; fieldtab records readings, it does not make the work safe.")
+}
+
+// printQR prints a join link and its QR code in the terminal.
+func (m *Main) printQR(what, link string) {
+	if qr, err := qrcode.New(link, qrcode.Medium); err == nil {
+		fmt.Fprintf(m.Stdout, "%s (%s):\n%s", what, link, qr.ToSmallString(false))
+	}
+}
+
+// joinAddrs are the host:port addresses phones can reach a server on that
+// listens at addr (host:port) on port: the one address it is bound to, or
+// every LAN address when it listens on all of them. A loopback bind has none.
+func joinAddrs(addr string, port int) []string {
+	hosts := lanAddresses()
+	if host, _, err := net.SplitHostPort(addr); err == nil && host != "" && host != "0.0.0.0" && host != "::" {
+		hosts = []string{host} // bound to one address: only that one answers
+		if ip := net.ParseIP(host); (ip != nil && ip.IsLoopback()) || strings.EqualFold(host, "localhost") {
+			hosts = nil
+		}
+	}
+	out := make([]string, 0, len(hosts))
+	for _, h := range hosts {
+		out = append(out, net.JoinHostPort(h, strconv.Itoa(port)))
+	}
+	return out
 }
 
 // lanAddresses lists this machine's non-loopback IPv4 addresses, the ones a
@@ -168,16 +190,22 @@ func lanAddresses() []string {
 // runDevice handles `fieldtab device add --db X --name N --role R`, printing a
 // token for scripts.
 func (m *Main) runDevice(ctx context.Context, args []string) error {
+	const synopsis = "device add [--db PATH] --name NAME --role lead|technician"
+	const about = "Add a device and print its bearer token on stdout, for scripts; the token is shown once."
+	if wantsHelp(args) {
+		fmt.Fprintf(m.Stdout, "usage: fieldtab %s\n\n%s\n", synopsis, about)
+		return errHelp
+	}
 	if len(args) == 0 || args[0] != "add" {
-		fmt.Fprintln(m.Stderr, "usage: fieldtab device add [--db PATH] --name NAME --role lead|technician")
+		fmt.Fprintf(m.Stderr, "usage: fieldtab %s\n", synopsis)
 		return errUsage
 	}
 	fs := newFlagSet("device add", m.Stderr)
 	dbPath := fs.String("db", "", "SQLite store (default: the user's data directory)")
 	name := fs.String("name", "", "device name, e.g. \"script on the lead's laptop\"")
 	role := fs.String("role", schema.RoleTechnician, "lead or technician")
-	if err := fs.Parse(args[1:]); err != nil {
-		return errUsage
+	if err := m.parseFlags(fs, synopsis, about, args[1:]); err != nil {
+		return err
 	}
 	db, err := openDB(ctx, *dbPath)
 	if err != nil {
@@ -198,8 +226,8 @@ func (m *Main) runBackup(ctx context.Context, args []string) error {
 	fs := newFlagSet("backup", m.Stderr)
 	dbPath := fs.String("db", "", "SQLite store (default: the user's data directory)")
 	out := fs.String("out", "", "backup file to write (must not exist)")
-	if err := fs.Parse(args); err != nil {
-		return errUsage
+	if err := m.parseFlags(fs, "backup [--db PATH] --out FILE", "Copy the store safely while serve is using it.", args); err != nil {
+		return err
 	}
 	if *out == "" {
 		fmt.Fprintln(m.Stderr, "fieldtab backup: --out is required")

@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"flag"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -30,24 +29,6 @@ func signerDirOr(dir string) (string, error) {
 	return defaultSignerDir()
 }
 
-// parseInterleaved parses fs's flags wherever they stand among the
-// positional arguments (`verify FILE --db X` as well as `verify --db X FILE`)
-// and returns the positional ones.
-func parseInterleaved(fs *flag.FlagSet, args []string) ([]string, error) {
-	var pos []string
-	for {
-		if err := fs.Parse(args); err != nil {
-			return nil, err
-		}
-		args = fs.Args()
-		if len(args) == 0 {
-			return pos, nil
-		}
-		pos = append(pos, args[0])
-		args = args[1:]
-	}
-}
-
 const signerUsage = `usage:
   fieldtab signer init --name NAME --org ORG --email EMAIL [--dir D] [--force]
   fieldtab signer import FILE.p12 [--password-file F] [--dir D] [--force]
@@ -59,6 +40,10 @@ in D, by default fieldtab in the user's config directory.
 // runSigner handles `fieldtab signer init|import|show`: the key and
 // certificate reports are digitally signed with.
 func (m *Main) runSigner(_ context.Context, args []string) error {
+	if wantsHelp(args) {
+		fmt.Fprint(m.Stdout, signerUsage)
+		return errHelp
+	}
 	if len(args) == 0 {
 		fmt.Fprint(m.Stderr, signerUsage)
 		return errUsage
@@ -82,8 +67,9 @@ func (m *Main) signerInit(args []string) error {
 	email := fs.String("email", "", "the signer's e-mail address (required)")
 	dir := fs.String("dir", "", "directory for the key and certificate (default: fieldtab in the user's config directory)")
 	force := fs.Bool("force", false, "replace an existing signer key and certificate")
-	if err := fs.Parse(args); err != nil {
-		return errUsage
+	if err := m.parseFlags(fs, "signer init --name NAME --org ORG --email EMAIL [--dir D] [--force]",
+		"Make a signing key and a self-issued certificate for signing reports.", args); err != nil {
+		return err
 	}
 	if fs.NArg() > 0 {
 		fmt.Fprintf(m.Stderr, "fieldtab signer init: unexpected argument %q\n", fs.Arg(0))
@@ -120,9 +106,10 @@ func (m *Main) signerImport(args []string) error {
 	pwFile := fs.String("password-file", "", "file holding the .p12 file's password (default: no password)")
 	dir := fs.String("dir", "", "directory for the key and certificate (default: fieldtab in the user's config directory)")
 	force := fs.Bool("force", false, "replace an existing signer key and certificate")
-	pos, err := parseInterleaved(fs, args)
+	pos, err := m.parseFlagsInterleaved(fs, "signer import FILE.p12 [--password-file F] [--dir D] [--force]",
+		"Import a signing key and certificate (a CA's, or your firm's) from a PKCS#12 file.", args)
 	if err != nil {
-		return errUsage
+		return err
 	}
 	if len(pos) != 1 {
 		fmt.Fprint(m.Stderr, "fieldtab signer import: give one FILE.p12\n"+signerUsage)
@@ -162,8 +149,8 @@ func (m *Main) signerImport(args []string) error {
 func (m *Main) signerShow(args []string) error {
 	fs := newFlagSet("signer show", m.Stderr)
 	dir := fs.String("dir", "", "directory of the key and certificate (default: fieldtab in the user's config directory)")
-	if err := fs.Parse(args); err != nil {
-		return errUsage
+	if err := m.parseFlags(fs, "signer show [--dir D]", "Show the signer's certificate and its fingerprint.", args); err != nil {
+		return err
 	}
 	d, err := signerDirOr(*dir)
 	if err != nil {

@@ -47,8 +47,16 @@ func (e exitError) Error() string { return fmt.Sprintf("exit status %d", e.code)
 
 // Run executes one command line (without the program name).
 func (m *Main) Run(ctx context.Context, args []string) error {
+	err := m.run(ctx, args)
+	if errors.Is(err, errHelp) {
+		return nil
+	}
+	return err
+}
+
+func (m *Main) run(ctx context.Context, args []string) error {
 	if len(args) == 0 {
-		m.usage()
+		m.usage(m.Stderr)
 		return errUsage
 	}
 	switch args[0] {
@@ -68,30 +76,36 @@ func (m *Main) Run(ctx context.Context, args []string) error {
 		return m.runVerify(ctx, args[1:])
 	case "signer":
 		return m.runSigner(ctx, args[1:])
-	case "help", "-h", "--help":
-		m.usage()
+	case "job":
+		return m.runJob(ctx, args[1:])
+	case "join-code":
+		return m.runJoinCode(ctx, args[1:])
+	case "help", "-h", "-help", "--help":
+		m.usage(m.Stdout)
 		return nil
 	}
 	fmt.Fprintf(m.Stderr, "fieldtab: unknown command %q\n", args[0])
-	m.usage()
+	m.usage(m.Stderr)
 	return errUsage
 }
 
 // Close releases what Run opened. Nothing yet; later commands hold a database.
 func (m *Main) Close() error { return nil }
 
-func (m *Main) usage() {
-	fmt.Fprint(m.Stderr, `usage: fieldtab <command> [flags]
+func (m *Main) usage(w io.Writer) {
+	fmt.Fprint(w, `usage: fieldtab <command> [flags]   (fieldtab <command> --help for its flags)
 
 commands:
-  serve    run the field server (--db PATH, --addr HOST:PORT, --demo)
-  demo     serve with the demo job loaded (same as serve --demo)
-  device   add a device and print its token for scripts (device add --name N --role R)
-  backup   copy the store safely while it is in use (--db PATH --out FILE)
-  calc     field arithmetic with JSON output (fieldtab calc help)
-  report   the closeout report PDF (--job ID --out FILE.pdf [--sign])
-  verify   check a signed report (FILE.pdf [--db PATH])
-  signer   the key reports are signed with (signer init|import|show)
+  job        start a job or list the store's jobs (job new|list)
+  serve      run the field server (--db PATH, --addr HOST:PORT, --demo)
+  join-code  a new join code for phones, while serve runs (--role lead|technician)
+  demo       serve with the demo job loaded (same as serve --demo)
+  device     add a device and print its token for scripts (device add --name N --role R)
+  backup     copy the store safely while it is in use (--db PATH --out FILE)
+  calc       field arithmetic with JSON output (fieldtab calc help)
+  report     the closeout report PDF (--job ID --out FILE.pdf [--sign])
+  verify     check a signed report (FILE.pdf [--db PATH])
+  signer     the key reports are signed with (signer init|import|show)
 `)
 }
 

@@ -39,20 +39,33 @@ func (db *DB) CreateDevice(ctx context.Context, a Actor, name, role string) (Dev
 	if err := checkKind("role", role, []string{RoleLead, RoleTechnician}); err != nil {
 		return Device{}, "", err
 	}
+	var d Device
+	var token string
+	err := db.writeTx(ctx, func(tx *sql.Tx) error {
+		var err error
+		d, token, err = db.insertDevice(tx, a, name, role)
+		return err
+	})
+	if err != nil {
+		return Device{}, "", wrapStore("create device", err)
+	}
+	return d, token, nil
+}
+
+// insertDevice adds a device with a new token in tx; name and role are
+// already checked.
+func (db *DB) insertDevice(tx *sql.Tx, a Actor, name, role string) (Device, string, error) {
 	var raw [tokenBytes]byte
 	rand.Read(raw[:]) // never fails since Go 1.24
 	token := base64.RawURLEncoding.EncodeToString(raw[:])
 	at, now := db.stamp()
 	d := Device{ID: NewID(), Name: name, Role: role, CreatedAt: at}
-	err := db.writeTx(ctx, func(tx *sql.Tx) error {
-		if _, err := tx.Exec("INSERT INTO devices (id, name, role, token_hash, created_at) VALUES (?, ?, ?, ?, ?)",
-			d.ID, d.Name, d.Role, hashToken(token), now); err != nil {
-			return err
-		}
-		return addAudit(tx, at, a, "", "create", "device", d.ID, map[string]any{"name": name, "role": role})
-	})
-	if err != nil {
-		return Device{}, "", wrapStore("create device", err)
+	if _, err := tx.Exec("INSERT INTO devices (id, name, role, token_hash, created_at) VALUES (?, ?, ?, ?, ?)",
+		d.ID, d.Name, d.Role, hashToken(token), now); err != nil {
+		return Device{}, "", err
+	}
+	if err := addAudit(tx, at, a, "", "create", "device", d.ID, map[string]any{"name": name, "role": role}); err != nil {
+		return Device{}, "", err
 	}
 	return d, token, nil
 }

@@ -2,10 +2,10 @@ package server
 
 import (
 	"context"
-	"crypto/rand"
 	"fmt"
 	"net"
 	"net/http"
+	"slices"
 	"strings"
 	"sync"
 	"time"
@@ -75,100 +75,58 @@ func actorOf(r *http.Request) schema.Actor {
 	return schema.Actor{DeviceID: d.ID, Name: d.Name, Role: d.Role}
 }
 
-// Join codes: short, typed or scanned once per device, valid for joinCodeTTL.
-// A technician code may be used by the whole crew until it expires; a lead code
-// is used once. Wrong guesses are limited per client (per address, per /64 for
-// IPv6). There is no limit across clients: one would let any device on the
-// network lock the whole crew out, and 31^8 codes behind 5 guesses a minute per
-// client leave no guessing chance worth the name.
+// Join codes are made and kept by the store (schema.CreateJoinCode), so that
+// `fieldtab join-code` can make one beside a running server. Wrong guesses are
+// limited here, per client (per address, per /64 for IPv6). There is no limit
+// across clients: one would let any device on the network lock the whole crew
+// out, and 31^8 codes behind 5 guesses a minute per client leave no guessing
+// chance worth the name.
 const (
-	joinCodeTTL      = 15 * time.Minute
-	joinCodeLen      = 8
-	joinCodeAlphabet = "23456789ABCDEFGHJKMNPQRSTUVWXYZ" // no 0/O, 1/I/L
+	joinCodeTTL      = schema.JoinCodeTTL
 	guessWindow      = time.Minute
 	guessesPerClient = 5
 )
 
-type joinCode struct {
-	role    string
-	expires time.Time
-}
-
+// pairing counts wrong join codes per client, in memory: a restart forgets
+// them, which gives a guesser little more than waiting a minute does.
 type pairing struct {
 	mu       sync.Mutex
 	now      func() time.Time
-	codes    map[string]joinCode
-	failures map[string][]time.Time // by client host; "" holds every failure
+	failures map[string][]time.Time // by client
 }
 
 func newPairing(now func() time.Time) *pairing {
-	return &pairing{now: now, codes: map[string]joinCode{}, failures: map[string][]time.Time{}}
+	return &pairing{now: now, failures: map[string][]time.Time{}}
 }
 
-// NewJoinCode makes a join code for role, valid for joinCodeTTL, and returns it
-// formatted for reading aloud ("ABCD-EFGH") with its expiry.
+// NewJoinCode makes a join code for role, valid for joinCodeTTL by the
+// server's clock, and returns it formatted for reading aloud ("ABCD-EFGH")
+// with its expiry.
 func (s *Server) NewJoinCode(role string) (string, time.Time, error) {
-	if role != schema.RoleLead && role != schema.RoleTechnician {
-		return "", time.Time{}, schema.Errorf(schema.Invalid, "role", "%q is not a role; accepted values are lead and technician", role)
-	}
-	return s.pairing.newCode(role)
+	return s.DB.CreateJoinCode(context.Background(), schema.Actor{Name: "server", Role: schema.RoleLead}, role, s.now())
 }
 
-func (p *pairing) newCode(role string) (string, time.Time, error) {
-	b := make([]byte, joinCodeLen)
-	if _, err := rand.Read(b); err != nil {
-		return "", time.Time{}, err
-	}
-	for i := range b {
-		// 256 is not a multiple of 31; the bias (under 1 %) does not matter for a
-		// code that lives minutes behind a guess limit.
-		b[i] = joinCodeAlphabet[int(b[i])%len(joinCodeAlphabet)]
-	}
-	code := string(b)
-	p.mu.Lock()
-	defer p.mu.Unlock()
-	now := p.now()
-	for c, jc := range p.codes {
-		if now.After(jc.expires) {
-			delete(p.codes, c)
-		}
-	}
-	expires := now.Add(joinCodeTTL)
-	p.codes[code] = joinCode{role: role, expires: expires}
-	return code[:4] + "-" + code[4:], expires, nil
-}
-
-// redeem checks a typed code and returns it (normalised) with its role and
-// expiry. Failed guesses are counted against the client; past the limit the
-// answer is 429.
-func (p *pairing) redeem(typed, client string) (string, joinCode, error) {
-	code := strings.ToUpper(strings.NewReplacer("-", "", " ", "").Replace(typed))
+// attempt counts a pairing attempt against client before its code is
+// checked, so that guesses sent in parallel cannot slip past the limit, or
+// answers 429 when client has guessed wrong too often lately. Call forget
+// when the code turned out right (or was never looked at).
+func (p *pairing) attempt(client string) (forget func(), err error) {
 	p.mu.Lock()
 	defer p.mu.Unlock()
 	now := p.now()
 	if p.tooMany(client, now) {
-		return "", joinCode{}, &httpError{status: http.StatusTooManyRequests, field: "code",
+		return nil, &httpError{status: http.StatusTooManyRequests, field: "code",
 			msg: "too many wrong join codes; wait a minute and ask the lead for the current code"}
 	}
-	jc, ok := p.codes[code]
-	if !ok || now.After(jc.expires) {
-		p.failures[client] = append(p.failures[client], now)
-		return "", joinCode{}, schema.Errorf(schema.Unauthorized, "code", "this join code is wrong or has expired; ask the lead for the current code")
-	}
-	if jc.role == schema.RoleLead {
-		delete(p.codes, code)
-	}
-	return code, jc, nil
-}
-
-// restore gives back a single-use code whose pairing failed after it was
-// redeemed (a refused device name), so the lead need not make a new one.
-func (p *pairing) restore(code string, jc joinCode) {
-	p.mu.Lock()
-	defer p.mu.Unlock()
-	if p.now().Before(jc.expires) {
-		p.codes[code] = jc
-	}
+	p.failures[client] = append(p.failures[client], now)
+	return func() {
+		p.mu.Lock()
+		defer p.mu.Unlock()
+		ts := p.failures[client]
+		if i := slices.IndexFunc(ts, now.Equal); i >= 0 {
+			p.failures[client] = slices.Delete(ts, i, i+1)
+		}
+	}, nil
 }
 
 func (p *pairing) tooMany(client string, now time.Time) bool {
@@ -226,16 +184,16 @@ func (s *Server) handlePair(w http.ResponseWriter, r *http.Request) {
 	if err != nil {
 		host = r.RemoteAddr
 	}
-	code, jc, err := s.pairing.redeem(req.Code, guessClient(host))
+	forget, err := s.pairing.attempt(guessClient(host))
 	if err != nil {
 		s.writeError(w, r, err)
 		return
 	}
-	d, token, err := s.DB.CreateDevice(r.Context(), schema.Actor{Name: req.Name, Role: jc.role}, req.Name, jc.role)
+	d, token, err := s.DB.PairDevice(r.Context(), req.Code, req.Name, s.now())
+	if schema.ErrorCode(err) != schema.Unauthorized {
+		forget() // only a wrong code counts as a guess
+	}
 	if err != nil {
-		if jc.role == schema.RoleLead {
-			s.pairing.restore(code, jc)
-		}
 		s.writeError(w, r, err)
 		return
 	}
@@ -252,21 +210,31 @@ func (s *Server) handleJoinCodeCreate(w http.ResponseWriter, r *http.Request) {
 		s.writeError(w, r, err)
 		return
 	}
-	code, expires, err := s.NewJoinCode(req.Role)
+	code, expires, err := s.DB.CreateJoinCode(r.Context(), actorOf(r), req.Role, s.now())
 	if err != nil {
 		s.writeError(w, r, err)
 		return
 	}
-	// The lead's screen shows the code and a QR code of the address this request
-	// came in on, which is one the crew's phones can reach too.
-	joinURL := "http://" + r.Host + "/#join=" + strings.ReplaceAll(code, "-", "")
-	png, err := qrcode.Encode(joinURL, qrcode.Medium, 256)
+	// The lead's screen shows the code and a QR code of an address the crew's
+	// phones can reach: never this browser's own localhost.
+	urls, note := JoinURLs(r.Host, s.LANAddrs())
+	out := map[string]any{"code": code, "role": req.Role, "expires_at": expires, "join_urls": []string{}}
+	if len(urls) == 0 {
+		out["join_url"], out["join_url_note"] = "", note
+		writeJSON(w, http.StatusCreated, out)
+		return
+	}
+	links := make([]string, len(urls))
+	for i, u := range urls {
+		links[i] = JoinLink(u, code)
+	}
+	png, err := qrcode.Encode(links[0], qrcode.Medium, 256)
 	if err != nil {
 		s.writeError(w, r, fmt.Errorf("join code QR: %w", err))
 		return
 	}
-	writeJSON(w, http.StatusCreated, map[string]any{"code": code, "role": req.Role, "expires_at": expires,
-		"join_url": joinURL, "qr_png": png})
+	out["join_url"], out["join_urls"], out["qr_png"] = links[0], links, png
+	writeJSON(w, http.StatusCreated, out)
 }
 
 func (s *Server) handleDeviceList(w http.ResponseWriter, r *http.Request) {

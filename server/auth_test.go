@@ -176,6 +176,7 @@ func TestPairing(t *testing.T) {
 	})
 	t.Run("OKJoinCodeEndpoint", func(t *testing.T) {
 		ts := MustOpenServer(t)
+		ts.SetLANAddrs([]string{"192.0.2.10:8470"}) // TEST-NET-1 (RFC 5737)
 		var jc struct {
 			Code, Role string
 			JoinURL    string `json:"join_url"`

@@ -13,6 +13,7 @@ import (
 	"net/http"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"time"
 
 	"github.com/gorilla/mux"
@@ -33,6 +34,10 @@ type Server struct {
 	// SignerDir holds the key and certificate reports are signed with
 	// (report.LoadSignerDir); "" or missing files make signing answer 503.
 	SignerDir string
+
+	// lanAddrs are the host:port addresses where phones on the site network
+	// reach this server (SetLANAddrs); join links use them.
+	lanAddrs atomic.Pointer[[]string]
 
 	ln      net.Listener
 	srv     *http.Server

@@ -26,7 +26,7 @@ function joinCodeCard(ctx) {
     out.append(
       h('p', { class: 'codebox', 'data-test': 'join-code-text' }, code),
       h('p', {}, `${kindWord(lastCode.role || '')} code, valid until ${timeText(lastCode.expires_at)}. Scan the QR code or open:`),
-      h('p', { class: 'small', 'data-test': 'join-url' }, lastCode.join_url || ''),
+      h('p', { class: 'small', 'data-test': 'join-url' }, lastCode.join_url || lastCode.join_url_note || ''),
       lastCode.qr_png ? h('img', {
         class: 'qr', 'data-test': 'join-qr', alt: `QR code of the join address for code ${code}`,
         src: `data:image/png;base64,${lastCode.qr_png}`, width: '220', height: '220',
