@@ -12,7 +12,7 @@ import (
 )
 
 const jobUsage = `usage:
-  fieldtab job new --name NAME --units ip|si [--elevation FT_OR_M | --barometric PSIA_OR_KPA] [--site ADDRESS] [--client C] [--engineer E] [--contractor C] [--firm F] [--db PATH]
+  fieldtab job new --name NAME --units ip|si [--elevation FT_OR_M | --barometric PSIA_OR_KPA] [--site ADDRESS] [--client C] [--engineer E] [--contractor C] [--firm F] [--project-number N] [--db PATH]
   fieldtab job list [--db PATH]
 job new prints the new job's ID on stdout (JOB=$(fieldtab job new ...)); job list
 shows every job's ID, name, units, status and how much it holds.
@@ -43,7 +43,7 @@ func (m *Main) runJob(ctx context.Context, args []string) error {
 var jobFlags = map[string]string{
 	"name": "--name", "units": "--units", "elevation": "--elevation", "barometric": "--barometric",
 	"site_address": "--site", "client": "--client", "engineer": "--engineer",
-	"contractor": "--contractor", "tab_firm": "--firm",
+	"contractor": "--contractor", "tab_firm": "--firm", "project_number": "--project-number",
 }
 
 func (m *Main) jobNew(ctx context.Context, args []string) error {
@@ -59,6 +59,7 @@ func (m *Main) jobNew(ctx context.Context, args []string) error {
 	fs.StringVar(&j.Engineer, "engineer", "", "engineer of record")
 	fs.StringVar(&j.Contractor, "contractor", "", "mechanical contractor")
 	fs.StringVar(&j.TABFirm, "firm", "", "the test-and-balance firm doing the work")
+	fs.StringVar(&j.ProjectNumber, "project-number", "", "the client's or engineer's project number, printed on every page of the report")
 	if err := m.parseFlags(fs, "job new --name NAME --units ip|si [--elevation FT_OR_M | --barometric PSIA_OR_KPA] [flags]",
 		"Start a job in the store and print its ID on stdout. Tolerances start at common-practice defaults; change them in the app where the project specification says otherwise.", args); err != nil {
 		return err

@@ -20,7 +20,8 @@ var uuidLine = regexp.MustCompile(`^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]
 func TestJobNewList(t *testing.T) {
 	dbPath := filepath.Join(t.TempDir(), "site.db")
 	code, out, errOut := runCmd(t, "job", "new", "--db", dbPath, "--name", "Harbour Library", "--units", "ip", "--elevation", "2500",
-		"--site", "1 Quay St (fictional)", "--client", "City of Nowhere", "--engineer", "Mx Eng", "--contractor", "Pipe & Duct", "--firm", "Balance Works")
+		"--site", "1 Quay St (fictional)", "--client", "City of Nowhere", "--engineer", "Mx Eng", "--contractor", "Pipe & Duct", "--firm", "Balance Works",
+		"--project-number", "P-26-014")
 	if code != 0 || !uuidLine.MatchString(out) || !strings.Contains(errOut, "Harbour Library") {
 		t.Fatalf("job new: exit %d, stdout %q, stderr %q: want the ID alone on stdout", code, out, errOut)
 	}
@@ -41,7 +42,7 @@ func TestJobNewList(t *testing.T) {
 	}
 	if j.Name != "Harbour Library" || j.Units != "ip" || j.Elevation == nil || *j.Elevation != 2500 || j.Barometric != nil ||
 		j.SiteAddress != "1 Quay St (fictional)" || j.Client != "City of Nowhere" || j.Engineer != "Mx Eng" ||
-		j.Contractor != "Pipe & Duct" || j.TABFirm != "Balance Works" || j.Status != schema.JobOpen || j.Tolerances != schema.DefaultTolerances() {
+		j.Contractor != "Pipe & Duct" || j.TABFirm != "Balance Works" || j.ProjectNumber != "P-26-014" || j.Status != schema.JobOpen || j.Tolerances != schema.DefaultTolerances() {
 		t.Errorf("stored job %+v", j)
 	}
 	// Two systems, three outlets on the first job, for the counts.
@@ -102,12 +103,13 @@ func TestJobNewErrors(t *testing.T) {
 		{[]string{"--name", "X"}, []string{"--units is required", "ip or si"}},
 		{[]string{"--name", "X", "--units", "metric"}, []string{"--units", "ip, si"}},
 		{[]string{"--name", "X", "--units", "ip", "--elevation", "30000"}, []string{"--elevation", "30,000 ft", "25,000 ft"}},
-		{[]string{"--name", "X", "--units", "si", "--elevation", "9000"}, []string{"--elevation", "9000 m", "7500 m"}},
+		{[]string{"--name", "X", "--units", "si", "--elevation", "9000"}, []string{"--elevation", "9,000 m", "7,500 m"}},
 		{[]string{"--name", "X", "--units", "ip", "--barometric", "101.3"}, []string{"--barometric", "101.3 psia", "16 psia"}},
 		{[]string{"--name", "X", "--units", "ip", "--elevation", "high"}, []string{"--elevation", "not a number"}},
 		{[]string{"--name", "X", "--units", "ip", "--elevation", "100", "--barometric", "14.6"}, []string{"--elevation and --barometric", "not both"}},
 		{[]string{"--name", "X", "--units", "ip", "--firm", "a\tb"}, []string{"--firm"}},
 		{[]string{"--name", strings.Repeat("x", 201), "--units", "ip"}, []string{"--name"}},
+		{[]string{"--name", "X", "--units", "ip", "--project-number", strings.Repeat("9", 81)}, []string{"--project-number"}},
 	}
 	for _, tt := range tests {
 		code, out, errOut := runCmd(t, append([]string{"job", "new", "--db", dbPath}, tt.args...)...)

@@ -655,7 +655,7 @@ func fromMeasure(field string, err error) error {
 }
 
 func fmtValue(v float64) string {
-	if math.Abs(v) >= 1e4 && math.Abs(v) < 1e12 && v == math.Trunc(v) {
+	if math.Abs(v) >= 1e3 && math.Abs(v) < 1e12 && v == math.Trunc(v) {
 		return groupThousands(strconv.FormatFloat(v, 'f', 0, 64))
 	}
 	return strconv.FormatFloat(v, 'g', 6, 64)
