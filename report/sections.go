@@ -296,7 +296,10 @@ func (d *doc) findings() {
 		return
 	}
 	d.para("Every deficiency the readings show, in the order of the sections that follow: what is out of tolerance, "+
-		"capacity short of expected, readings taken with an instrument past its calibration date, and outlets never read.", "", sizeBody)
+		"capacity short of expected, motors and fans off their limits or design, conflicting readings for the lead to resolve, "+
+		"water that contradicts its test's mode, readings taken with no instrument or with one past its calibration date, "+
+		"and outlets never read. Thresholds marked common practice are the trade's, not a standard's: the project "+
+		"specification governs.", "", sizeBody)
 	t := d.newTable(column{head: "#", w: 0.5, align: "R"}, column{head: "Kind", w: 2.2},
 		column{head: "Where", w: 3}, column{head: "What", w: 7})
 	n := 0

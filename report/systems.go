@@ -363,6 +363,9 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 		}
 	}
 	verdict := status(ct.Status)
+	if ct.SideText != "" {
+		verdict += ": " + ct.SideText
+	}
 	if ct.PercentOfExpected != nil {
 		verdict = u.pct(*ct.PercentOfExpected) + " of expected: " + verdict
 	}

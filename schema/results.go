@@ -362,7 +362,11 @@ type CapacityTestResult struct {
 	Mode      string `json:"mode"`
 	// Status: "meets", "short", "undetermined" (the uncertainty band straddles
 	// CapacityMeetsPct), "no_expected", "incomplete" (see Missing) or "error".
-	Status     string          `json:"status"`
+	Status string `json:"status"`
+	// Side and SideText, when undetermined: which side of the line the
+	// delivered capacity itself lies on ("meets" or "short").
+	Side       string          `json:"side,omitempty"`
+	SideText   string          `json:"side_text,omitempty"`
 	Missing    []string        `json:"missing,omitempty"`
 	FlowSource string          `json:"flow_source"`
 	Airflow    *float64        `json:"airflow,omitempty"`
@@ -1188,6 +1192,11 @@ func (c *resultsCalc) capacity(ct *CapacityTest) CapacityTestResult {
 		res.Status = ResultShort
 	default:
 		res.Status = string(measure.StatusUndetermined)
+		res.Side = ResultShort
+		if total >= threshold {
+			res.Side = ResultMeets
+		}
+		res.SideText = res.Side + ", within the uncertainty of the " + c.num(CapacityMeetsPct, 0) + " % line"
 	}
 	return res
 }
