@@ -66,7 +66,7 @@ func runMotor(p *params) (*obj, error) {
 			return nil, flagErr(err, names)
 		}
 		o.num("percent_fla", pct)
-		if pct > 100 {
+		if pct > measure.FullLoadPct {
 			warnings = append(warnings, fmt.Sprintf("the highest leg draws %.0f %% of nameplate FLA: "+
 				"check the service factor, the load and the drive before leaving it running", pct))
 		}
@@ -83,6 +83,10 @@ func runMotor(p *params) (*obj, error) {
 	if vi > measure.VoltageUnbalanceDeratePct {
 		warnings = append(warnings, fmt.Sprintf("voltage imbalance %.1f %% is above %g %%: NEMA MG 1 calls for derating; "+
 			"report it to the electrical contractor", vi, measure.VoltageUnbalanceDeratePct))
+	}
+	if ci > measure.CurrentUnbalanceNotePct {
+		warnings = append(warnings, fmt.Sprintf("current imbalance %.1f %% is above %g %% (common practice): "+
+			"check the supply, the connections and the windings", ci, measure.CurrentUnbalanceNotePct))
 	}
 	o.strs("warnings", warnings).str("caution", motorCaution)
 	return o, nil

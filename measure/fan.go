@@ -168,6 +168,16 @@ func PercentFLA(amps, fla float64) (float64, error) {
 // text).
 const VoltageUnbalanceDeratePct = 1.0
 
+// CurrentUnbalanceNotePct is the current unbalance, in percent, above which a
+// motor's supply, windings or connections deserve a look. Common practice,
+// from memory: NEMA MG 1 sets no limit on current, which runs several times the
+// voltage unbalance.
+const CurrentUnbalanceNotePct = 10.0
+
+// FullLoadPct is 100 % of nameplate full-load amps: a motor drawing more runs
+// into its service factor, which wants its load and drive checked.
+const FullLoadPct = 100.0
+
 // VoltageImbalance returns the voltage unbalance of three line-to-line voltages in
 // percent, as NEMA MG 1 defines it: the largest deviation from the average ÷ the
 // average × 100 (460, 467, 450 V → 1.96 %). NEMA MG 1 §14.35 has motors derated

@@ -49,6 +49,10 @@ type ToleranceResult struct {
 	PercentOfDesign float64 // measured ÷ design × 100
 	Low, High       float64 // the band's limits
 	Uncertainty     float64 // ± instrument uncertainty at this reading
+	// Side says, for an undetermined result, where the reading itself lies:
+	// below the band (low), above it (high) or inside it (within), each within
+	// the uncertainty of a limit. Empty for the other statuses.
+	Side Status
 }
 
 // Sanity limits that keep every result finite; the values are in the caller's
@@ -117,6 +121,14 @@ func CheckTolerance(measured, design float64, band Band, acc Accuracy) (Toleranc
 		r.Status = StatusHigh
 	default:
 		r.Status = StatusUndetermined
+		switch {
+		case measured < low-eps:
+			r.Side = StatusLow
+		case measured > high+eps:
+			r.Side = StatusHigh
+		default:
+			r.Side = StatusWithin
+		}
 	}
 	if math.IsNaN(r.PercentOfDesign) || math.IsInf(r.PercentOfDesign, 0) {
 		// Unreachable within the limits above; kept so a change to them cannot leak NaN.

@@ -202,3 +202,31 @@ func mustOutletFlowHood(t *testing.T, q VolumeFlow, factor float64) VolumeFlow {
 	}
 	return f
 }
+
+// TestToleranceSide checks which side of the band an undetermined reading is
+// on. Figures by hand: design 100, band ±10 % = 90–110.
+func TestToleranceSide(t *testing.T) {
+	cases := []struct {
+		name     string
+		measured float64
+		acc      Accuracy
+		status   Status
+		side     Status
+	}{
+		{"HighWithinAccuracy", 112, Accuracy{Pct: 5}, StatusUndetermined, StatusHigh}, // 112 ± 5.6 straddles 110
+		{"LowWithinAccuracy", 88, Accuracy{Abs: 3}, StatusUndetermined, StatusLow},    // 88 ± 3 straddles 90
+		{"InsideNearLimit", 108, Accuracy{Abs: 3}, StatusUndetermined, StatusWithin},  // 108 ± 3 straddles 110
+		{"HighDecided", 120, Accuracy{Abs: 3}, StatusHigh, ""},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			r, err := CheckTolerance(c.measured, 100, Band{LowPct: 10, HighPct: 10}, c.acc)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if r.Status != c.status || r.Side != c.side {
+				t.Errorf("status %q side %q, want %q %q", r.Status, r.Side, c.status, c.side)
+			}
+		})
+	}
+}

@@ -208,7 +208,7 @@ var statusLabels = map[string]string{
 	"within": "within", "low": "low", "high": "high", "undetermined": "undetermined",
 	schema.ResultNotRead: "not read", schema.ResultIncomplete: "incomplete", schema.ResultComputed: "computed",
 	schema.ResultError: "not computed", schema.ResultMeets: "meets", schema.ResultShort: "short",
-	schema.ResultNoExpected:   "no rating",
+	schema.ResultNoExpected: "no rating", schema.ResultConflict: "conflicting readings",
 	schema.CalibrationCurrent: "current", schema.CalibrationDueSoon: "due soon", schema.CalibrationOverdue: "overdue",
 	schema.CalibrationUnknown: "no due date",
 }
@@ -230,6 +230,14 @@ var findingLabels = map[string]string{
 	schema.FindingAirWaterMismatch:      "Air and water sides disagree",
 	schema.FindingInstrumentOverdue:     "Instrument past calibration",
 	schema.FindingTraverseWarning:       "Traverse caution",
+	schema.FindingTraverseConflict:      "Conflicting readings",
+	schema.FindingNoInstrument:          "No instrument on record",
+	schema.FindingMotorCheck:            "Motor check",
+	schema.FindingFanSpeedOffDesign:     "Fan speed off design",
+	schema.FindingStaticOffDesign:       "External static off design",
+	schema.FindingOutletsVsTraverse:     "Outlets and traverse disagree",
+	schema.FindingWaterModeMismatch:     "Water against its mode",
+	schema.FindingWaterModeNotGiven:     "Heating or cooling not stated",
 }
 
 func findingLabel(kind string) string {

@@ -14,7 +14,9 @@ func (d *doc) outletTables() {
 	tol := d.s.Job.Tolerances
 	d.para("Flows in "+u.AirFlow+". The % of design and the status are the final reading's, else the as-found one's, against "+
 		"the outlet tolerance of −"+u.pct(tol.OutletLowPct)+" / +"+u.pct(tol.OutletHighPct)+" with the instrument's accuracy "+
-		"carried through. A status marked * rests on a reading taken with an instrument past its calibration date.", "", sizeBody)
+		"carried through; an undetermined status says on which side of the limit the reading lies. A status marked * rests on a "+
+		"reading taken with an instrument past its calibration date, one marked † on a reading with no instrument accuracy on "+
+		"record, judged as read with no ±.", "", sizeBody)
 
 	bySystem := make(map[string][]*schema.OutletResult, len(d.r.Systems))
 	for i := range d.r.Outlets {
@@ -63,6 +65,12 @@ func (d *doc) outletTable(title string, list []*schema.OutletResult) {
 			pctD = u.pct(g.Tolerance.PercentOfDesign)
 		}
 		st := status(o.Status)
+		if g := governing(o); g != nil && g.Tolerance != nil && g.Tolerance.Status == o.Status {
+			st = tolStatus(g.Tolerance, true)
+			if g.Tolerance.UncertaintyUnknown {
+				st += " †"
+			}
+		}
 		for _, f := range o.Flags {
 			if f.Kind == schema.FlagInstrumentOverdue {
 				st += " *"

@@ -215,19 +215,33 @@ func (d *doc) basis() {
 		"Capacity uncertainty (±): the instruments' stated accuracies carried through the capacity by first-order propagation " +
 			"(ISO GUM, JCGM 100:2008 §5.1; ASHRAE Guideline 2), root-sum-square over airflow, dry bulbs and humidities.",
 		"Expected capacity: the manufacturer's performance table at the test's entering wet bulb, outdoor dry bulb and airflow, " +
-			"interpolated and never extrapolated; else the nameplate rating. A test meets when it delivers at least " +
+			"interpolated and never extrapolated; else the nameplate rating, which is at the manufacturer's rating conditions, " +
+			"not the test's, and is labelled so. A test meets when it delivers at least " +
 			d.u.pct(schema.CapacityMeetsPct) + " of that (common practice), taking its ± into account.",
 		"Pitot traverses: point positions by log-Tchebycheff (rectangular ducts: ISO 3966 / ASHRAE Standard 111; round ducts: " +
 			"ISO 5802:2001) or equal areas (round ducts: US EPA Method 1, Table 1-2); each point's velocity from its velocity " +
-			"pressure at the air's density in the duct, and the velocities averaged, not the pressures.",
+			"pressure at the air's density in the duct, and the velocities averaged, not the pressures. A traverse's ± is the " +
+			"manometer's stated accuracy (% of reading and absolute) carried through each point's velocity and the mean, combined " +
+			"root-sum-square with the method's own ±" + d.u.pct(measure.TraverseMethodUncertaintyPct) + " of flow: a figure from " +
+			"memory (ISO 3966 puts a measurement meeting its straight-duct conditions near ±2 %; field planes are commonly taken " +
+			"as about ±5 %, the figure quoted with ASHRAE Standard 111), not confirmed against the texts. Where two readings of one " +
+			"point and stage each count, the traverse shows them as conflicting and computes no flow for that stage.",
+		"Outlets and traverses: where every supply (or exhaust) outlet of a system is read and the system has a traverse, " +
+			"their sum is compared with the traverse under the fan tolerance, with both figures' ±.",
 		"Outlets: flow-hood reading × the outlet's correction factor, or anemometer velocity × the outlet's Ak effective area.",
 		"Water: liquid water properties from IAPWS-IF97 (region 1); glycol solutions from the ASHRAE Handbook—Fundamentals " +
 			"secondary-coolant tables by volume %, interpolated and never extrapolated; valve flow from Cv (IP) or Kv (SI) and the " +
 			"measured pressure drop (ANSI/ISA-75.01, IEC 60534-2-1, non-choked liquid); water-side capacity = volume flow × density × " +
-			"specific heat × temperature change. Air and water sides agree when they differ by no more than " +
+			"specific heat × temperature change. A valve's flow carries the valve's stated flow accuracy, or ±" +
+			d.u.pct(schema.DefaultValveAccuracyPct) + " where none is entered (common practice, from memory), combined root-sum-square " +
+			"with the gauge's. The water's warming (cooling) or cooling (heating) is set against the test's stated mode; a " +
+			"temperature change within the two thermometers' accuracies is no heat transfer. Air and water sides agree when they differ by no more than " +
 			d.u.pct(schema.AirWaterAgreementPct) + " of the water side (common practice).",
 		"Motors: voltage and current imbalance as NEMA MG 1 defines it (the largest deviation from the average ÷ the average); " +
-			"% of full-load amps at the highest leg.",
+			"% of full-load amps at the highest leg. Findings: voltage imbalance above " + d.u.pct(measure.VoltageUnbalanceDeratePct) +
+			" (NEMA MG 1 derating, from memory), current imbalance above " + d.u.pct(measure.CurrentUnbalanceNotePct) +
+			" (common practice), more than " + d.u.pct(measure.FullLoadPct) + " of FLA; fan speed or external static pressure more than " +
+			d.u.pct(schema.FanDesignDeviationPct) + " from design (common practice).",
 		"Fan laws (AMCA; ASHRAE Handbook—HVAC Systems and Equipment, fans chapter): flow ∝ speed, pressure ∝ speed², power ∝ speed³, " +
 			"on an unchanged system curve at constant density. They predict; a new reading proves.",
 	}, sizeBody)
@@ -251,7 +265,9 @@ func (d *doc) basis() {
 	d.para("Each tolerance status carries the stated accuracy of the instrument that took the reading (for example ±3 % "+
 		"of reading ± 7 cfm): \"within\" means the whole band of the reading ± its uncertainty lies inside the tolerance, "+
 		"\"low\" or \"high\" that the whole of it lies outside, and \"undetermined\" that it straddles a limit, so that this "+
-		"instrument cannot decide. An instrument with no accuracy on record counts as exact. Readings taken with an instrument "+
+		"instrument cannot decide; an undetermined status says on which side of the limit the reading itself lies. A reading "+
+		"with no instrument, or an instrument with no accuracy on record, is judged as read and shown with no ± (not ± 0); "+
+		"such readings are listed among the findings. Readings taken with an instrument "+
 		"after its calibration due date are listed among the findings.", "", sizeBody)
 
 	d.heading(1, "Safety")
@@ -280,7 +296,10 @@ func (d *doc) findings() {
 		return
 	}
 	d.para("Every deficiency the readings show, in the order of the sections that follow: what is out of tolerance, "+
-		"capacity short of expected, readings taken with an instrument past its calibration date, and outlets never read.", "", sizeBody)
+		"capacity short of expected, motors and fans off their limits or design, conflicting readings for the lead to resolve, "+
+		"water that contradicts its test's mode, readings taken with no instrument or with one past its calibration date, "+
+		"and outlets never read. Thresholds marked common practice are the trade's, not a standard's: the project "+
+		"specification governs.", "", sizeBody)
 	t := d.newTable(column{head: "#", w: 0.5, align: "R"}, column{head: "Kind", w: 2.2},
 		column{head: "Where", w: 3}, column{head: "What", w: 7})
 	n := 0
@@ -354,7 +373,12 @@ func (d *doc) waterTests() {
 	u := d.u
 	d.heading(0, "Water tests")
 	d.para("Water flow against design (job hydronic tolerance), and the water-side capacity set beside the air side of the "+
-		"linked capacity test.", "", sizeBody)
+		"linked capacity test. Each test's stated mode is set beside what its water shows.", "", sizeBody)
+	if hot := d.heatingWaterTests(); len(hot) > 0 {
+		d.para("Caution, hot water ("+joinTags(hot)+"): heating-water test ports, coils and hoses can scald. Wear gloves and eye "+
+			"protection, open ports slowly, and let pressure and temperature down before opening a circuit; follow the site's "+
+			"safety rules and the project specification.", "B", sizeBody)
+	}
 	t := d.newTable(column{head: "Coil or circuit", w: 2.1}, column{head: "System", w: 1},
 		column{head: "Fluid", w: 1.9}, column{head: "Flow from", w: 1.4},
 		column{head: "ΔP (" + u.WaterPressure + ")", w: 0.9, align: "R"}, column{head: "Design (" + u.WaterFlow + ")", w: 1, align: "R"},
@@ -373,18 +397,28 @@ func (d *doc) waterTests() {
 					coef = "Kv"
 				}
 				from = "valve, " + coef + " " + u.n(wt.ValveCv, 2)
+				if w.ValveAccuracyPct != nil {
+					from += ", ±" + u.pct(*w.ValveAccuracyPct)
+					if w.ValveAccuracySource == "default" {
+						from += " (default, common practice)"
+					}
+				}
 			}
 		}
 		flow, pctD := dash, dash
 		if w.Flow != nil {
 			flow = u.water(*w.Flow)
 			if w.Tolerance != nil {
-				flow = pm(flow, u.water(w.Tolerance.Uncertainty))
+				flow = withPM(flow, w.Tolerance, u.water)
 				pctD = u.pct(w.Tolerance.PercentOfDesign)
 			}
 		}
-		t.row(w.Tag, w.SystemTag, fluid, from, ptr(w.DP, func(v float64) string { return u.n(v, 2) }),
-			u.water(w.DesignFlow), flow, pctD, status(w.Status))
+		st := status(w.Status)
+		if w.Tolerance != nil && w.Status == w.Tolerance.Status {
+			st = tolStatus(w.Tolerance, true)
+		}
+		t.row(w.Tag+" ("+waterProcessText(w)+")", w.SystemTag, fluid, from, ptr(w.DP, func(v float64) string { return u.n(v, 2) }),
+			u.water(w.DesignFlow), flow, pctD, st)
 	}
 	t.end()
 
@@ -410,6 +444,9 @@ func (d *doc) waterTests() {
 		}
 		if note == "" && len(w.Notes) > 0 {
 			note = strings.Join(w.Notes, "; ")
+		}
+		if w.ModeNote != "" {
+			note = strings.Join(nonEmpty(w.ModeNote, note), "; ")
 		}
 		t.row(w.Tag, ptr(w.EnterTemp, u.temp), ptr(w.LeaveTemp, u.temp), water, ctTag, air, diff, note)
 	}
@@ -443,7 +480,7 @@ func fluidName(wt *schema.WaterTest) string {
 // deficientLabel is deficient for a status already put into words.
 func deficientLabel(s string) bool {
 	switch strings.TrimSuffix(s, " *") {
-	case "low", "high", "short", "overdue", "not computed":
+	case "low", "high", "short", "overdue", "not computed", "conflicting readings":
 		return true
 	}
 	return false

@@ -26,7 +26,7 @@ func (d *doc) system(sr *schema.SystemResult) {
 	t := d.newTable(column{head: "Item", w: 3.2}, column{head: "Design", w: 1.4, align: "R"},
 		column{head: "Measured", w: 2, align: "R"}, column{head: "% of design", w: 1.1, align: "R"},
 		column{head: "Tolerance band", w: 1.8, align: "R"}, column{head: "Status", w: 1.3})
-	t.strong = func(col int, s string) bool { return col == 5 && deficientLabel(s) }
+	t.strong = func(col int, s string) bool { return col == 5 && (deficientLabel(s) || s == "disagree") }
 	if sr.Airflow != nil {
 		src := "outlets"
 		if sr.AirflowSource == "traverse" {
@@ -41,8 +41,8 @@ func (d *doc) system(sr *schema.SystemResult) {
 		}
 		meas, pctD, band, st := u.airU(*sr.Airflow), dash, dash, dash
 		if tl := sr.AirflowTolerance; tl != nil {
-			meas = pm(u.air(*sr.Airflow), u.airU(tl.Uncertainty))
-			pctD, band, st = u.pct(tl.PercentOfDesign), u.air(tl.Low)+"–"+u.airU(tl.High), status(tl.Status)
+			meas = withPM(u.air(*sr.Airflow), tl, u.airU)
+			pctD, band, st = u.pct(tl.PercentOfDesign), u.air(tl.Low)+"–"+u.airU(tl.High), tolStatus(tl, true)
 		}
 		t.row("System airflow, from "+src, designAir(u, sr.DesignAirflow), meas, pctD, band, st)
 	} else {
@@ -52,6 +52,18 @@ func (d *doc) system(sr *schema.SystemResult) {
 	if o.SupplyTotal > 0 {
 		t.row("Sum of supply outlets ("+itoa(o.SupplyRead)+" of "+itoa(o.SupplyTotal)+" read; their design sum "+u.airU(o.SupplyDesign)+")",
 			designAir(u, sr.DesignAirflow), u.airU(o.SupplyFlow), u.pctP(o.SupplyPercentOfDesign), dash, dash)
+	}
+	if a := sr.OutletsVsTraverse; a != nil {
+		trTag := "the traverse"
+		if tr := d.rTraverses[a.TraverseID]; tr != nil {
+			trTag = "traverse " + tr.Tag
+		}
+		band, st := dash, label(a.Status)
+		if tl := a.Tolerance; tl != nil {
+			band = u.air(tl.Low) + "–" + u.airU(tl.High)
+		}
+		t.row("Sum of all "+a.Outlets+" outlets against "+trTag+" (fan tolerance, both ±)", u.airU(a.TraverseFlow),
+			u.airU(a.OutletSum), u.pct(a.OutletSum/a.TraverseFlow*100), band, st)
 	}
 	t.end()
 	if o.Total > 0 {
@@ -85,7 +97,7 @@ func (d *doc) system(sr *schema.SystemResult) {
 			if gov != nil && gov.Flow != nil {
 				meas = u.airU(*gov.Flow)
 				if tl := gov.Tolerance; tl != nil {
-					meas = pm(u.air(*gov.Flow), u.airU(tl.Uncertainty))
+					meas = withPM(u.air(*gov.Flow), tl, u.airU)
 					pctD, band = u.pct(tl.PercentOfDesign), u.air(tl.Low)+"–"+u.airU(tl.High)
 				}
 			}
@@ -142,7 +154,7 @@ func (d *doc) fanAndMotor(sr *schema.SystemResult, design schema.SystemDesign) {
 		d.heading(1, "Fan and motor")
 		t := d.newTable(column{head: "Item", w: 2.4}, column{head: "Design or nameplate", w: 2.2, align: "R"},
 			column{head: "Measured", w: 3, align: "R"}, column{head: "Remark", w: 2.6})
-		t.row("Fan speed", designOr(design.FanRPM, u.rpm), u.rpmP(sr.FanRPM), "")
+		t.row("Fan speed", designOr(design.FanRPM, u.rpm), u.rpmP(sr.FanRPM), pctOfDesign(u, sr.FanRPMPercentOfDesign))
 		t.row("Motor speed", designOr(design.MotorRPM, u.rpm), u.rpmP(sr.MotorRPM), "")
 		volts := designOr(design.Volts, func(v float64) string { return nu(u.n(v, 0), "V") })
 		if design.Phase > 0 && volts != dash {
@@ -161,9 +173,9 @@ func (d *doc) fanAndMotor(sr *schema.SystemResult, design schema.SystemDesign) {
 		t.row("Input power", motor, u.kwP(sr.InputPowerKW), pfText(u, sr.PowerFactor))
 		for _, q := range staticOrder {
 			v, ok := sr.Statics[q.key]
-			des := dash
+			des, remark := dash, ""
 			if q.key == "static_external" {
-				des = designOr(design.ExternalStatic, u.ductU)
+				des, remark = designOr(design.ExternalStatic, u.ductU), pctOfDesign(u, sr.ExternalStaticPercentOfDesign)
 			}
 			if !ok && des == dash {
 				continue
@@ -172,13 +184,21 @@ func (d *doc) fanAndMotor(sr *schema.SystemResult, design schema.SystemDesign) {
 			if ok {
 				meas = u.ductU(v)
 			}
-			t.row(q.name, des, meas, "")
+			t.row(q.name, des, meas, remark)
 		}
 		if sr.MotorSheave != nil || sr.FanSheave != nil {
 			t.row("Sheaves, pitch diameter", "", "motor "+ptr(sr.MotorSheave, func(v float64) string { return u.lengthU(v, true) })+
 				", fan "+ptr(sr.FanSheave, func(v float64) string { return u.lengthU(v, true) }), "")
 		}
+		if sr.MotorStatus != "" {
+			st := "all pass"
+			if sr.MotorStatus == schema.MotorWarning {
+				st = itoa(len(sr.MotorWarnings)) + " beyond the limit: see below"
+			}
+			t.row("Motor checks", dash, st, "voltage and current imbalance, % of FLA")
+		}
 		t.end()
+		d.notes(noteGroup{sr.Tag + ", motor", sr.MotorWarnings})
 	}
 
 	if fl := sr.FanLaw; fl != nil {
@@ -330,12 +350,22 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 		if ex.Sensible != nil {
 			exp += ", " + u.powerU(*ex.Sensible) + " sensible"
 		}
-		kv = append(kv, [2]string{"Expected", exp + ", from the " + src})
+		from := "from the " + src
+		if ex.Basis != "" {
+			from = ex.Basis
+			if ex.AtTestConditions {
+				from = "from the " + ex.Basis
+			}
+		}
+		kv = append(kv, [2]string{"Expected", exp + ", " + from})
 		if ex.Note != "" {
 			kv = append(kv, [2]string{"Expected, note", ex.Note})
 		}
 	}
 	verdict := status(ct.Status)
+	if ct.SideText != "" {
+		verdict += ": " + ct.SideText
+	}
 	if ct.PercentOfExpected != nil {
 		verdict = u.pct(*ct.PercentOfExpected) + " of expected: " + verdict
 	}

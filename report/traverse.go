@@ -28,18 +28,19 @@ func (d *doc) traverse(tr *schema.TraverseResult) {
 	if tr.MeanVelocity != nil {
 		kv = append(kv, [2]string{"Mean velocity", u.velocityU(*tr.MeanVelocity)})
 	}
+	flowLabel := "Flow, " + label(tr.Stage)
 	if tr.Flow != nil {
-		flow := u.airU(*tr.Flow)
-		if tl := tr.Tolerance; tl != nil {
-			flow = pm(u.air(*tr.Flow), u.airU(tl.Uncertainty)) + ": " + u.pct(tl.PercentOfDesign) + " of the system's design, band " +
-				u.air(tl.Low) + "–" + u.airU(tl.High) + ", " + status(tl.Status)
-		}
-		kv = append(kv, [2]string{"Flow", flow})
+		kv = append(kv, [2]string{flowLabel, traverseFlowText(u, *tr.Flow, tr.FlowUncertainty, tr.Tolerance)})
 	} else {
-		kv = append(kv, [2]string{"Flow", status(tr.Status)})
+		kv = append(kv, [2]string{flowLabel, status(tr.Status)})
 	}
+	kv = append(kv, traverseStageRows(u, tr)...)
 	d.pairs(32, kv...)
+	if tr.UncertaintyNote != "" {
+		d.para(tr.UncertaintyNote+".", "I", sizeSmall)
+	}
 	d.itemNotes(tr.Tag, nil, tr.Warnings, tr.Flags, tr.Errors)
+	d.traverseConflicts(tr)
 	if tv != nil && len(tr.Points) > 0 {
 		d.traverseDrawing(tv, tr)
 	}

@@ -4,8 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"slices"
-	"strconv"
 	"strings"
 	"time"
 
@@ -51,6 +49,7 @@ const (
 	ResultMeets      = "meets"       // capacity at least CapacityMeetsPct of expected
 	ResultShort      = "short"       // capacity below CapacityMeetsPct of expected
 	ResultNoExpected = "no_expected" // no rating or table to compare the capacity with
+	ResultConflict   = "conflict"    // two current readings of one traverse point and stage: the lead resolves
 )
 
 // Finding kinds.
@@ -158,6 +157,13 @@ type ToleranceCheck struct {
 	Low             float64 `json:"low"`         // lowest value within the band
 	High            float64 `json:"high"`        // highest value within the band
 	Uncertainty     float64 `json:"uncertainty"` // ± instrument uncertainty of the value
+	// UncertaintyUnknown: the reading's instrument (or its accuracy) is not on
+	// record, so Uncertainty leaves it out; show no ± rather than ± 0.
+	UncertaintyUnknown bool `json:"uncertainty_unknown,omitempty"`
+	// Side and SideText, for an undetermined status: where the value itself
+	// lies ("low", "high" or "within"), within the uncertainty of a limit.
+	Side     string `json:"side,omitempty"`
+	SideText string `json:"side_text,omitempty"`
 }
 
 // InstrumentResult is an instrument's calibration status on the results' date.
@@ -233,19 +239,28 @@ type SystemResult struct {
 	Outlets       OutletSummary `json:"outlets"`
 	// Airflow is the measured airflow: the first computed traverse of the
 	// system, else the sum of its supply outlets.
-	Airflow           *float64           `json:"airflow,omitempty"`
-	AirflowSource     string             `json:"airflow_source,omitempty"` // "traverse" or "outlets"
-	AirflowTraverseID string             `json:"airflow_traverse_id,omitempty"`
-	AirflowTolerance  *ToleranceCheck    `json:"airflow_tolerance,omitempty"` // job fan band
-	FanRPM            *float64           `json:"fan_rpm,omitempty"`
-	MotorRPM          *float64           `json:"motor_rpm,omitempty"`
-	Volts             []LegValue         `json:"volts,omitempty"`
-	Amps              []LegValue         `json:"amps,omitempty"`
-	PowerFactor       *float64           `json:"power_factor,omitempty"`
-	InputPowerKW      *float64           `json:"input_power_kw,omitempty"` // three-phase, with a power_factor reading
-	PercentFLA        *float64           `json:"percent_fla,omitempty"`    // highest leg
-	VoltageImbalance  *float64           `json:"voltage_imbalance_pct,omitempty"`
-	CurrentImbalance  *float64           `json:"current_imbalance_pct,omitempty"`
+	Airflow           *float64        `json:"airflow,omitempty"`
+	AirflowSource     string          `json:"airflow_source,omitempty"` // "traverse" or "outlets"
+	AirflowTraverseID string          `json:"airflow_traverse_id,omitempty"`
+	AirflowTolerance  *ToleranceCheck `json:"airflow_tolerance,omitempty"` // job fan band
+	FanRPM            *float64        `json:"fan_rpm,omitempty"`
+	MotorRPM          *float64        `json:"motor_rpm,omitempty"`
+	Volts             []LegValue      `json:"volts,omitempty"`
+	Amps              []LegValue      `json:"amps,omitempty"`
+	PowerFactor       *float64        `json:"power_factor,omitempty"`
+	InputPowerKW      *float64        `json:"input_power_kw,omitempty"` // three-phase, with a power_factor reading
+	PercentFLA        *float64        `json:"percent_fla,omitempty"`    // highest leg
+	VoltageImbalance  *float64        `json:"voltage_imbalance_pct,omitempty"`
+	CurrentImbalance  *float64        `json:"current_imbalance_pct,omitempty"`
+	// MotorStatus is "ok" or "warning" once a motor check can be made (the
+	// checks of `fieldtab calc motor`); MotorWarnings says which failed.
+	MotorStatus   string   `json:"motor_status,omitempty"`
+	MotorWarnings []string `json:"motor_warnings,omitempty"`
+	// Fan speed and external static as a percentage of design.
+	FanRPMPercentOfDesign         *float64 `json:"fan_rpm_percent_of_design,omitempty"`
+	ExternalStaticPercentOfDesign *float64 `json:"external_static_percent_of_design,omitempty"`
+	// OutletsVsTraverse compares the fully read outlets' sum with the traverse.
+	OutletsVsTraverse *FlowAgreement     `json:"outlets_vs_traverse,omitempty"`
 	Statics           map[string]float64 `json:"statics,omitempty"` // static_* readings by quantity, duct pressure units
 	MotorSheave       *float64           `json:"motor_sheave,omitempty"`
 	FanSheave         *float64           `json:"fan_sheave,omitempty"`
@@ -280,7 +295,7 @@ type TraverseResult struct {
 	SystemID    string               `json:"system_id"`
 	SystemTag   string               `json:"system_tag"`
 	Location    string               `json:"location"`
-	Status      string               `json:"status"` // "computed", "incomplete" or "error"
+	Status      string               `json:"status"` // "computed", "incomplete", "conflict" or "error"
 	Stage       string               `json:"stage"`  // the stage whose point readings count: final when there are any
 	PointsTotal int                  `json:"points_total"`
 	PointsRead  int                  `json:"points_read"`
@@ -293,9 +308,20 @@ type TraverseResult struct {
 	MeanVelocity  *float64        `json:"mean_velocity,omitempty"`
 	Flow          *float64        `json:"flow,omitempty"`
 	Tolerance     *ToleranceCheck `json:"tolerance,omitempty"` // flow vs the system's design airflow, job fan band
-	Warnings      []string        `json:"warnings,omitempty"`
-	Flags         []Flag          `json:"flags,omitempty"`
-	Errors        []string        `json:"errors,omitempty"`
+	// FlowUncertainty is ± on Flow: the instruments' accuracy through each
+	// point and the method's own (see UncertaintyNote).
+	FlowUncertainty *float64 `json:"flow_uncertainty,omitempty"`
+	UncertaintyNote string   `json:"uncertainty_note,omitempty"`
+	// AsFound is the as-found stage computed on its own, whenever as-found
+	// point readings exist (beside the final figures above).
+	AsFound *TraverseStageResult `json:"as_found,omitempty"`
+	// Conflicts lists points of either stage with two or more current
+	// readings, neither superseding the other: no flow is computed for that
+	// stage until the lead corrects or voids all but one.
+	Conflicts []TraverseConflict `json:"conflicts,omitempty"`
+	Warnings  []string           `json:"warnings,omitempty"`
+	Flags     []Flag             `json:"flags,omitempty"`
+	Errors    []string           `json:"errors,omitempty"`
 }
 
 // TraversePointValue is one traverse point: its reading in the job's units
@@ -336,7 +362,11 @@ type CapacityTestResult struct {
 	Mode      string `json:"mode"`
 	// Status: "meets", "short", "undetermined" (the uncertainty band straddles
 	// CapacityMeetsPct), "no_expected", "incomplete" (see Missing) or "error".
-	Status     string          `json:"status"`
+	Status string `json:"status"`
+	// Side and SideText, when undetermined: which side of the line the
+	// delivered capacity itself lies on ("meets" or "short").
+	Side       string          `json:"side,omitempty"`
+	SideText   string          `json:"side_text,omitempty"`
 	Missing    []string        `json:"missing,omitempty"`
 	FlowSource string          `json:"flow_source"`
 	Airflow    *float64        `json:"airflow,omitempty"`
@@ -372,13 +402,24 @@ type CapacityUncertainty struct {
 	Omits    []string `json:"omits,omitempty"`
 }
 
+// Words for ExpectedCapacity.Basis.
+const (
+	ExpectedBasisPerfTable = "manufacturer's performance table at the test's conditions"
+	ExpectedBasisRated     = "rated, at the manufacturer's rating conditions, not the test's"
+)
+
 // ExpectedCapacity is what the unit should deliver: from its performance
 // table at the test's conditions, or its nameplate rating.
 type ExpectedCapacity struct {
-	Source   string   `json:"source"` // "perf_table" or "nameplate"
-	Total    float64  `json:"total"`
-	Sensible *float64 `json:"sensible,omitempty"`
-	Note     string   `json:"note,omitempty"`
+	Source string `json:"source"` // "perf_table" or "nameplate"
+	// AtTestConditions: the figure is at the test's entering wet bulb,
+	// outdoor dry bulb and airflow (the performance table), not at the
+	// manufacturer's rating conditions (the nameplate); Basis says so in words.
+	AtTestConditions bool     `json:"at_test_conditions"`
+	Basis            string   `json:"basis"`
+	Total            float64  `json:"total"`
+	Sensible         *float64 `json:"sensible,omitempty"`
+	Note             string   `json:"note,omitempty"`
 }
 
 // WaterTestResult is a coil's or circuit's water flow against design and its
@@ -390,6 +431,18 @@ type WaterTestResult struct {
 	SystemTag  string  `json:"system_tag"`
 	FlowSource string  `json:"flow_source"`
 	DesignFlow float64 `json:"design_flow"`
+	// Mode is the test's stated mode ("cooling", "heating", or "" on a record
+	// made before it was asked for); Process is what the water shows once
+	// both temperatures are read (WaterCooling, WaterHeating or
+	// WaterNoTransfer); ModeNote says where the two disagree, or that the
+	// mode is not stated.
+	Mode     string `json:"mode"`
+	Process  string `json:"process,omitempty"`
+	ModeNote string `json:"mode_note,omitempty"`
+	// ValveAccuracyPct is the valve's ± flow accuracy used for a valve's
+	// flow, and ValveAccuracySource "stated" or "default" (common practice).
+	ValveAccuracyPct    *float64 `json:"valve_accuracy_pct,omitempty"`
+	ValveAccuracySource string   `json:"valve_accuracy_source,omitempty"`
 	// Status is the flow's tolerance status (within, low, high, undetermined),
 	// "incomplete" when a reading is missing (see Missing), or "error".
 	Status          string             `json:"status"`
@@ -409,7 +462,7 @@ type WaterTestResult struct {
 
 // WaterFigures is measure.WaterCapacity's result in the job's units.
 type WaterFigures struct {
-	Process      string  `json:"process"` // "cooling" when the water warms
+	Process      string  `json:"process"` // as WaterTestResult.Process: "cooling" when the water warms, "no heat transfer"
 	Capacity     float64 `json:"capacity"`
 	MeanTemp     float64 `json:"mean_temp"`
 	Density      float64 `json:"density"`
@@ -481,6 +534,7 @@ type resInstrument struct {
 type resFlowSum struct {
 	flow, unc   float64 // job air-flow units
 	read, total int
+	unknown     bool // some outlet's instrument accuracy is not on record
 }
 
 // resTraverse is what a computed traverse hands to the system and capacity
@@ -550,9 +604,13 @@ func (c *resultsCalc) run() *Results {
 		k := resKey{rd.SubjectKind, rd.SubjectID}
 		c.readings[k] = append(c.readings[k], rd)
 		c.checkOverdue(k, rd)
+		c.checkNoInstrument(k, rd)
 	}
 	for _, fl := range c.flags {
 		for i := range fl {
+			if fl[i].Kind == FlagNoInstrument {
+				noInstrumentText(&fl[i])
+			}
 			if n := len(fl[i].ReadingIDs); n > 1 && fl[i].Kind == FlagInstrumentOverdue {
 				in := c.inst[fl[i].InstrumentID].in
 				fl[i].Text = fmt.Sprintf("%d readings were taken with %s after its calibration was due on %s.",
@@ -808,7 +866,7 @@ func (c *resultsCalc) tolerance(measured, design float64, band measure.Band, acc
 		return nil, err
 	}
 	return &ToleranceCheck{Status: string(t.Status), PercentOfDesign: t.PercentOfDesign, Low: t.Low, High: t.High,
-		Uncertainty: t.Uncertainty}, nil
+		Uncertainty: t.Uncertainty, Side: string(t.Side), SideText: sideText(t.Side)}, nil
 }
 
 func (c *resultsCalc) outletBand() measure.Band {
@@ -867,6 +925,9 @@ func (c *resultsCalc) outlet(o *Outlet) OutletResult {
 			sum.read++
 			sum.flow += *gov.Flow
 			sum.unc += u
+			if gov.Tolerance == nil || gov.Tolerance.UncertaintyUnknown {
+				sum.unknown = true
+			}
 		}
 	}
 	return res
@@ -926,6 +987,7 @@ func (c *resultsCalc) outletReading(o *Outlet, rd *Reading) (*OutletReading, flo
 	if err != nil {
 		return st, f*acc.pct/100 + absFlow, err
 	}
+	tol.UncertaintyUnknown = !acc.known
 	st.Tolerance, st.Status = tol, tol.Status
 	return st, tol.Uncertainty, nil
 }
@@ -1004,26 +1066,9 @@ func (c *resultsCalc) traverse(t *Traverse) TraverseResult {
 		return res
 	}
 	res.Warnings = append(res.Warnings, layout.Warnings()...)
-	n := len(pts)
-	res.PointsTotal, tf.n = n, n
+	res.PointsTotal, tf.n = len(pts), len(pts)
 
 	rs := c.subjectReadings(SubjectTraverse, t.ID)
-	for _, r := range rs {
-		if (r.Quantity == "vp" || r.Quantity == "velocity") && r.Stage == StageFinal {
-			res.Stage = StageFinal
-			break
-		}
-	}
-	byPoint := make([]*Reading, n)
-	for _, r := range rs {
-		if (r.Quantity != "vp" && r.Quantity != "velocity") || r.Stage != res.Stage || r.Point < 1 || r.Point > n {
-			continue
-		}
-		if cur := byPoint[r.Point-1]; cur == nil || resLater(r, cur) {
-			byPoint[r.Point-1] = r
-		}
-	}
-
 	dens, err := c.airDensity(rs)
 	if err != nil {
 		res.Errors = append(res.Errors, err.Error())
@@ -1032,123 +1077,7 @@ func (c *resultsCalc) traverse(t *Traverse) TraverseResult {
 		res.Warnings = append(res.Warnings, dens.note)
 	}
 	res.Density, res.DensitySource = dens.rho.In(c.u), dens.source
-
-	res.Points = make([]TraversePointValue, n)
-	vps := make([]measure.Pressure, n)
-	vels := make([]measure.Velocity, n)
-	nVP, nVel, bad := 0, 0, false
-	accPct, accKnown := 0.0, true
-	for i, p := range pts {
-		pv := TraversePointValue{Point: i + 1, Label: p.Label(), Depth: p.Depth.DuctSizeIn(c.u)}
-		if p.Diameter == 0 {
-			pv.Depth, pv.PortOffset = p.X.DuctSizeIn(c.u), resPtr(p.Y.DuctSizeIn(c.u))
-		}
-		r := byPoint[i]
-		if r != nil {
-			pv.ReadingID, pv.Quantity = r.ID, r.Quantity
-			if r.Quantity == "vp" {
-				vp, err := r.Pressure()
-				if err != nil {
-					res.Errors = append(res.Errors, resErr(p.Label(), err))
-					bad = true
-				} else {
-					pv.Value = resPtr(vp.DuctIn(c.u))
-					vps[i] = vp
-					nVP++
-				}
-			} else {
-				v, err := r.Velocity()
-				if err != nil {
-					res.Errors = append(res.Errors, resErr(p.Label(), err))
-					bad = true
-				} else {
-					pv.Value = resPtr(v.In(c.u))
-					vels[i] = v
-					nVel++
-				}
-			}
-			// Velocity goes as √VP, so a VP accuracy of x % is about x/2 % on
-			// velocity; absolute parts are left out (they depend on each point).
-			a := c.accuracy(r.InstrumentID)
-			switch {
-			case !a.known:
-				accKnown = false
-			case r.Quantity == "vp":
-				accPct = math.Max(accPct, a.pct/2)
-			default:
-				accPct = math.Max(accPct, a.pct)
-			}
-		}
-		res.Points[i] = pv
-	}
-	res.PointsRead = nVP + nVel
-	tf.read = res.PointsRead
-	if bad {
-		return res
-	}
-	if res.PointsRead < n {
-		res.Status = ResultIncomplete
-		return res
-	}
-
-	var tr measure.TraverseResult
-	switch {
-	case nVP == n:
-		tr, err = layout.FromVelocityPressures(vps, dens.rho)
-	case nVel == n:
-		tr, err = layout.FromVelocities(vels)
-	default:
-		// Mixed readings: turn each VP into a velocity at the plane's density,
-		// keeping a negative reading's sign so FromVelocities counts it as zero.
-		for i := range pts {
-			if byPoint[i].Quantity != "vp" {
-				continue
-			}
-			v, perr := measure.PitotVelocity(measure.Pressure(math.Abs(float64(vps[i]))), dens.rho)
-			if perr != nil {
-				err = fmt.Errorf("%s: %w", pts[i].Label(), perr)
-				break
-			}
-			if vps[i] < 0 {
-				v = -v
-			}
-			vels[i] = v
-		}
-		if err == nil {
-			tr, err = layout.FromVelocities(vels)
-		}
-	}
-	if err != nil {
-		res.Errors = append(res.Errors, resErr("traverse", err))
-		return res
-	}
-	res.Status = ResultComputed
-	res.Area = resPtr(tr.Area.In(c.u))
-	res.MeanVelocity = resPtr(tr.MeanVelocity.In(c.u))
-	res.Flow = resPtr(tr.Flow.AirIn(c.u))
-	for i := range res.Points {
-		if i < len(tr.Velocities) {
-			res.Points[i].Velocity = resPtr(tr.Velocities[i].In(c.u))
-		}
-	}
-	for _, w := range tr.Warnings {
-		// measure repeats the layout's warnings, which are already listed.
-		if !slices.Contains(res.Warnings, w) {
-			res.Warnings = append(res.Warnings, w)
-		}
-	}
-	tf.computed, tf.flow, tf.stdFactor, tf.accPct, tf.accKnown = true, tr.Flow, dens.stdFactor, accPct, accKnown
-	if _, ok := c.sysTrav[t.SystemID]; !ok {
-		c.sysTrav[t.SystemID] = tf
-	}
-	if design := c.systemDesignAirflow(t.SystemID); design > 0 {
-		tol, err := c.tolerance(*res.Flow, design, c.fanBand(), measure.Accuracy{Pct: accPct})
-		if err != nil {
-			res.Errors = append(res.Errors, resErr("tolerance", err))
-		} else {
-			res.Tolerance = tol
-		}
-	}
+	c.traverseReadings(t, layout, pts, rs, dens, &res, tf)
 	return res
 }
 
@@ -1263,6 +1192,11 @@ func (c *resultsCalc) capacity(ct *CapacityTest) CapacityTestResult {
 		res.Status = ResultShort
 	default:
 		res.Status = string(measure.StatusUndetermined)
+		res.Side = ResultShort
+		if total >= threshold {
+			res.Side = ResultMeets
+		}
+		res.SideText = res.Side + ", within the uncertainty of the " + c.num(CapacityMeetsPct, 0) + " % line"
 	}
 	return res
 }
@@ -1466,13 +1400,14 @@ func (c *resultsCalc) expectedCapacity(ct *CapacityTest, enter measure.AirState,
 		default:
 			tot, sen, err := pt.t.Expected(measure.TemperatureIn(c.u, enter.WetBulb), odb, flow)
 			if err == nil {
-				return &ExpectedCapacity{Source: "perf_table", Total: tot.In(c.u), Sensible: resPtr(sen.In(c.u))}
+				return &ExpectedCapacity{Source: "perf_table", AtTestConditions: true, Basis: ExpectedBasisPerfTable,
+					Total: tot.In(c.u), Sensible: resPtr(sen.In(c.u))}
 			}
 			note = "outside the performance table: " + err.Error()
 		}
 	}
 	if sys.Design.RatedTotal > 0 {
-		e := &ExpectedCapacity{Source: "nameplate", Total: sys.Design.RatedTotal}
+		e := &ExpectedCapacity{Source: "nameplate", Basis: ExpectedBasisRated, Total: sys.Design.RatedTotal}
 		if sys.Design.RatedSensible > 0 {
 			e.Sensible = resPtr(sys.Design.RatedSensible)
 		}
@@ -1523,8 +1458,14 @@ func (c *resultsCalc) water(wt *WaterTest) WaterTestResult {
 		}
 	}
 
+	if haveTemps {
+		c.waterProcess(wt, rs, enter, leave, &res)
+	} else {
+		res.Mode = wt.Mode
+	}
 	var flow measure.VolumeFlow
 	var acc measure.Accuracy
+	instKnown := false
 	switch wt.FlowSource {
 	case "valve":
 		r := resCurrent(rs, "dp", 0)
@@ -1569,12 +1510,17 @@ func (c *resultsCalc) water(wt *WaterTest) WaterTestResult {
 			break
 		}
 		// Flow goes as √ΔP: a ΔP uncertainty of x % is about x/2 % on flow.
+		// The valve's own flow accuracy is independent of the gauge's, so the
+		// two combine root-sum-square.
 		a := c.accuracy(r.InstrumentID)
 		rel := a.pct / 100
 		if a.dim == DimPressure {
 			rel += a.abs / float64(dp)
 		}
-		acc.Pct = math.Min(rel/2*100, 100)
+		vPct, vSrc := valveAccuracy(wt)
+		res.ValveAccuracyPct, res.ValveAccuracySource = resPtr(vPct), vSrc
+		acc.Pct = math.Min(math.Hypot(rel/2*100, vPct), 100)
+		instKnown = a.known
 	case "meter":
 		r := resCurrent(rs, "flow", 0)
 		if r == nil {
@@ -1589,6 +1535,7 @@ func (c *resultsCalc) water(wt *WaterTest) WaterTestResult {
 		flow = q
 		a := c.accuracy(r.InstrumentID)
 		acc.Pct = a.pct
+		instKnown = a.known
 		if a.dim == DimFlow {
 			acc.Abs = measure.VolumeFlow(a.abs).WaterIn(c.u)
 		}
@@ -1603,6 +1550,7 @@ func (c *resultsCalc) water(wt *WaterTest) WaterTestResult {
 		if err != nil {
 			res.Errors = append(res.Errors, resErr("tolerance", err))
 		} else {
+			tol.UncertaintyUnknown = !instKnown
 			res.Tolerance, res.Status = tol, tol.Status
 		}
 		if haveTemps {
@@ -1610,7 +1558,7 @@ func (c *resultsCalc) water(wt *WaterTest) WaterTestResult {
 			if err != nil {
 				res.Errors = append(res.Errors, resErr("water capacity", err))
 			} else {
-				res.Capacity = &WaterFigures{Process: wr.Process, Capacity: wr.Capacity.In(c.u),
+				res.Capacity = &WaterFigures{Process: res.Process, Capacity: wr.Capacity.In(c.u),
 					MeanTemp: wr.MeanTemp.In(c.u), Density: wr.Density.In(c.u), SpecificHeat: wr.SpecificHeat.In(c.u)}
 				c.airWater(wt, wr.Capacity, &res)
 			}
@@ -1648,7 +1596,7 @@ func (c *resultsCalc) airWater(wt *WaterTest, water measure.Power, res *WaterTes
 		WaterCapacity: water.In(c.u), DifferencePct: diff}
 	if math.Abs(diff) > AirWaterAgreementPct {
 		a.Note = fmt.Sprintf("air side and water side differ by %s %%, more than the %s %% of common practice: check the readings and the flows",
-			resFmt(diff, 0), resFmt(AirWaterAgreementPct, 0))
+			c.num(diff, 0), c.num(AirWaterAgreementPct, 0))
 	}
 	res.AirSide = a
 }
@@ -1755,11 +1703,12 @@ func (c *resultsCalc) system(sys *System) SystemResult {
 			kind, sum = "exhaust", ex
 		}
 	}
+	unknown := false
 	if tf := c.sysTrav[sys.ID]; tf != nil {
-		flow, acc.Pct = tf.flow, tf.accPct
+		flow, acc.Pct, unknown = tf.flow, tf.accPct, !tf.accKnown
 		res.AirflowSource, res.AirflowTraverseID = "traverse", tf.id
 	} else if sum != nil && sum.read > 0 {
-		flow, acc.Abs = measure.AirFlowIn(c.u, sum.flow), sum.unc
+		flow, acc.Abs, unknown = measure.AirFlowIn(c.u, sum.flow), sum.unc, sum.unknown
 		res.AirflowSource = "outlets"
 		if sum.read < sum.total {
 			res.Notes = append(res.Notes, fmt.Sprintf("airflow is the sum of %d of %d %s outlets", sum.read, sum.total, kind))
@@ -1772,6 +1721,7 @@ func (c *resultsCalc) system(sys *System) SystemResult {
 			if err != nil {
 				res.Errors = append(res.Errors, resErr("airflow tolerance", err))
 			} else {
+				tol.UncertaintyUnknown = unknown
 				res.AirflowTolerance = tol
 			}
 		}
@@ -1779,6 +1729,7 @@ func (c *resultsCalc) system(sys *System) SystemResult {
 	if flow > 0 && sys.Design.Airflow > 0 && res.FanRPM != nil {
 		c.fanLaw(sys, flow, *res.FanRPM, res.Statics, res.InputPowerKW, motorSheave, &res)
 	}
+	c.systemChecks(sys, &res)
 	return res
 }
 
@@ -1894,8 +1845,11 @@ func (c *resultsCalc) findings() {
 	}
 	flagFindings := func(subj SubjectRef, flags []Flag) {
 		for _, f := range flags {
-			if f.Kind == FlagInstrumentOverdue {
+			switch f.Kind {
+			case FlagInstrumentOverdue:
 				add(FindingInstrumentOverdue, subj, subj.Tag+": "+f.Text)
+			case FlagNoInstrument:
+				add(FindingNoInstrument, subj, subj.Tag+": "+f.Text)
 			}
 		}
 	}
@@ -1903,9 +1857,10 @@ func (c *resultsCalc) findings() {
 		subj := SubjectRef{SubjectSystem, s.ID, s.Tag}
 		if t := s.AirflowTolerance; t != nil && (t.Status == string(measure.StatusLow) || t.Status == string(measure.StatusHigh)) {
 			add(FindingAirflowOutOfTolerance, subj, fmt.Sprintf("%s: airflow %s %s (from %s) is %s %% of design %s %s, %s the band %s–%s %s.",
-				s.Tag, resFmt(*s.Airflow, 0), c.units.AirFlow, s.AirflowSource, resFmt(t.PercentOfDesign, 0),
-				resFmt(s.DesignAirflow, 0), c.units.AirFlow, resSide(t.Status), resFmt(t.Low, 0), resFmt(t.High, 0), c.units.AirFlow))
+				s.Tag, c.num(*s.Airflow, 0), c.units.AirFlow, s.AirflowSource, c.num(t.PercentOfDesign, 0),
+				c.num(s.DesignAirflow, 0), c.units.AirFlow, resSide(t.Status), c.num(t.Low, 0), c.num(t.High, 0), c.units.AirFlow))
 		}
+		c.systemFindings(&s, add)
 		flagFindings(subj, s.Flags)
 	}
 	for _, o := range r.Outlets {
@@ -1920,12 +1875,12 @@ func (c *resultsCalc) findings() {
 		}
 		switch {
 		case o.Status == ResultNotRead:
-			add(FindingOutletNotRead, subj, fmt.Sprintf("%s: not read (design %s %s).", name, resFmt(o.DesignFlow, 0), c.units.AirFlow))
+			add(FindingOutletNotRead, subj, fmt.Sprintf("%s: not read (design %s %s).", name, c.num(o.DesignFlow, 0), c.units.AirFlow))
 		case gov != nil && gov.Tolerance != nil && (o.Status == string(measure.StatusLow) || o.Status == string(measure.StatusHigh)):
 			t := gov.Tolerance
 			add(FindingOutletOutOfTolerance, subj, fmt.Sprintf("%s: %s %s %s is %s %% of design %s %s, %s the band %s–%s %s.",
-				name, stage, resFmt(*gov.Flow, 0), c.units.AirFlow, resFmt(t.PercentOfDesign, 0), resFmt(o.DesignFlow, 0),
-				c.units.AirFlow, resSide(t.Status), resFmt(t.Low, 0), resFmt(t.High, 0), c.units.AirFlow))
+				name, stage, c.num(*gov.Flow, 0), c.units.AirFlow, c.num(t.PercentOfDesign, 0), c.num(o.DesignFlow, 0),
+				c.units.AirFlow, resSide(t.Status), c.num(t.Low, 0), c.num(t.High, 0), c.units.AirFlow))
 		}
 		flagFindings(subj, o.Flags)
 	}
@@ -1933,9 +1888,10 @@ func (c *resultsCalc) findings() {
 		subj := SubjectRef{SubjectTraverse, t.ID, t.Tag}
 		if tol := t.Tolerance; tol != nil && (tol.Status == string(measure.StatusLow) || tol.Status == string(measure.StatusHigh)) {
 			add(FindingAirflowOutOfTolerance, subj, fmt.Sprintf("%s: traverse flow %s %s is %s %% of the system's design, %s the band %s–%s %s.",
-				t.Tag, resFmt(*t.Flow, 0), c.units.AirFlow, resFmt(tol.PercentOfDesign, 0), resSide(tol.Status),
-				resFmt(tol.Low, 0), resFmt(tol.High, 0), c.units.AirFlow))
+				t.Tag, c.num(*t.Flow, 0), c.units.AirFlow, c.num(tol.PercentOfDesign, 0), resSide(tol.Status),
+				c.num(tol.Low, 0), c.num(tol.High, 0), c.units.AirFlow))
 		}
+		c.traverseFindings(&t, add)
 		for _, w := range t.Warnings {
 			add(FindingTraverseWarning, subj, t.Tag+": "+w)
 		}
@@ -1944,9 +1900,9 @@ func (c *resultsCalc) findings() {
 	for _, ct := range r.CapacityTests {
 		subj := SubjectRef{SubjectCapacityTest, ct.ID, ct.Tag}
 		if ct.Status == ResultShort && ct.PercentOfExpected != nil {
-			add(FindingCapacityShort, subj, fmt.Sprintf("%s: delivered %s %s is %s %% of the expected %s %s (%s); at least %s %% is required.",
-				ct.Tag, resFmt(ct.Capacity.Total, 0), c.units.Power, resFmt(*ct.PercentOfExpected, 0),
-				resFmt(ct.Expected.Total, 0), c.units.Power, strings.ReplaceAll(ct.Expected.Source, "_", " "), resFmt(CapacityMeetsPct, 0)))
+			add(FindingCapacityShort, subj, fmt.Sprintf("%s: delivered %s %s is %s %% of the expected %s %s (%s); at least %s %% is required (common practice).",
+				ct.Tag, c.num(ct.Capacity.Total, 0), c.units.Power, c.num(*ct.PercentOfExpected, 0),
+				c.num(ct.Expected.Total, 0), c.units.Power, ct.Expected.Basis, c.num(CapacityMeetsPct, 0)))
 		}
 		flagFindings(subj, ct.Flags)
 	}
@@ -1954,12 +1910,13 @@ func (c *resultsCalc) findings() {
 		subj := SubjectRef{SubjectWaterTest, w.ID, w.Tag}
 		if t := w.Tolerance; t != nil && (t.Status == string(measure.StatusLow) || t.Status == string(measure.StatusHigh)) {
 			add(FindingWaterFlowOutOfTol, subj, fmt.Sprintf("%s: water flow %s %s is %s %% of design %s %s, %s the band %s–%s %s.",
-				w.Tag, resFmt(*w.Flow, 1), c.units.WaterFlow, resFmt(t.PercentOfDesign, 0), resFmt(w.DesignFlow, 1),
-				c.units.WaterFlow, resSide(t.Status), resFmt(t.Low, 1), resFmt(t.High, 1), c.units.WaterFlow))
+				w.Tag, c.num(*w.Flow, 1), c.units.WaterFlow, c.num(t.PercentOfDesign, 0), c.num(w.DesignFlow, 1),
+				c.units.WaterFlow, resSide(t.Status), c.num(t.Low, 1), c.num(t.High, 1), c.units.WaterFlow))
 		}
 		if w.AirSide != nil && w.AirSide.Note != "" {
 			add(FindingAirWaterMismatch, subj, w.Tag+": "+w.AirSide.Note+".")
 		}
+		c.waterFindings(&w, add)
 		flagFindings(subj, w.Flags)
 	}
 }
@@ -1969,9 +1926,4 @@ func resSide(status string) string {
 		return "below"
 	}
 	return "above"
-}
-
-// resFmt formats v with d decimals for text.
-func resFmt(v float64, d int) string {
-	return strconv.FormatFloat(v, 'f', d, 64)
 }

@@ -488,6 +488,10 @@ func TestResultsCapacity(t *testing.T) {
 		if cr.Status != string(measure.StatusUndetermined) {
 			t.Errorf("status = %q, want undetermined (± %.0f on %.0f)", cr.Status, cr.Uncertainty.Total, cr.Capacity.Total)
 		}
+		// 96 % is above the 95 % line itself: the meets side.
+		if cr.Side != ResultMeets || cr.SideText != "meets, within the uncertainty of the 95 % line" {
+			t.Errorf("side %q %q, want meets", cr.Side, cr.SideText)
+		}
 	})
 	t.Run("OKPerfTable", func(t *testing.T) {
 		csv, err := os.ReadFile("../testdata/perf_rtu_example.csv")

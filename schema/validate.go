@@ -482,7 +482,8 @@ func (r *CapacityTest) Validate() error {
 // mode ("cooling" or "heating", required: the results and cautions follow it),
 // flow_source ("valve" or "meter"), valve_cv (the valve's Cv in an IP job, Kv
 // in an SI job: above 0, at most 10,000; required for a valve, 0 or in range
-// otherwise), fluid ("water", "pg" or "eg"), concentration (10 to 60 % by
+// otherwise), valve_accuracy_pct (0 to 50 % of flow; 0 for the default),
+// fluid ("water", "pg" or "eg"), concentration (10 to 60 % by
 // volume for a glycol, 0 for water), design_flow (above 0, at most 100,000 gpm
 // or 6,300 L/s) and capacity_test_id (optional). Errors are *Error with Code
 // Invalid.
@@ -509,6 +510,9 @@ func (r *WaterTest) Validate(u measure.UnitSystem) error {
 		if err := checkAboveZero("valve_cv", r.ValveCv, rangeValveCoeff, u); err != nil {
 			return err
 		}
+	}
+	if err := checkRangeOf("valve_accuracy_pct", r.ValveAccuracyPct, 0, 50, "% of flow"); err != nil {
+		return err
 	}
 	if err := checkKind("fluid", r.Fluid, waterFluids); err != nil {
 		return err

@@ -1,0 +1,63 @@
+package schema
+
+import (
+	"strconv"
+	"strings"
+
+	"fieldtab/measure"
+)
+
+// resNum formats v with d decimals for findings and notes, grouping thousands
+// as the report does: commas in IP ("1,240"), no-break spaces in SI from
+// 10 000 ("12 400"; SI style leaves four digits whole).
+func resNum(v float64, d int, si bool) string {
+	s := strconv.FormatFloat(v, 'f', d, 64)
+	neg := strings.HasPrefix(s, "-")
+	if neg {
+		s = s[1:]
+		if strings.Trim(s, "0.") == "" {
+			neg = false
+		}
+	}
+	whole, frac, _ := strings.Cut(s, ".")
+	sep, from := ",", 4
+	if si {
+		sep, from = "\u00a0", 5
+	}
+	if len(whole) >= from {
+		var b strings.Builder
+		for i, ch := range whole {
+			if i > 0 && (len(whole)-i)%3 == 0 {
+				b.WriteString(sep)
+			}
+			b.WriteRune(ch)
+		}
+		whole = b.String()
+	}
+	if frac != "" {
+		whole += "." + frac
+	}
+	if neg {
+		whole = "−" + whole
+	}
+	return whole
+}
+
+// num formats v with d decimals in the job's style.
+func (c *resultsCalc) num(v float64, d int) string { return resNum(v, d, c.u == measure.SI) }
+
+// numU is num with its unit after a space: "1,240 cfm".
+func (c *resultsCalc) numU(v float64, d int, unit string) string { return c.num(v, d) + " " + unit }
+
+// sideText says where an undetermined value lies, in words.
+func sideText(side measure.Status) string {
+	switch side {
+	case measure.StatusLow:
+		return "low, within the instrument's accuracy of the limit"
+	case measure.StatusHigh:
+		return "high, within the instrument's accuracy of the limit"
+	case measure.StatusWithin:
+		return "inside the band, within the instrument's accuracy of a limit"
+	}
+	return ""
+}
