@@ -102,6 +102,7 @@ export function render(ctx) {
       h('p', { class: 'sub' }, [job.site_address, job.units === 'si' ? 'SI units' : 'IP units', job.status].filter(Boolean).join(' · '))),
     h('div', { class: 'actions' },
       link(outboxText, jobHash(ctx, 'outbox'), { class: `btn ${c.rejected ? 'danger' : 'secondary'}`, 'data-test': 'open-outbox' }),
+      ctx.role === 'lead' ? link('Set up the job', jobHash(ctx, 'setup'), { class: 'btn', 'data-test': 'open-setup' }) : null,
       ctx.role === 'lead' ? link('Lead: codes, devices, design', jobHash(ctx, 'lead'), { class: 'btn secondary', 'data-test': 'open-lead' }) : null,
       link(ctx.role === 'lead' ? 'Report: preview and sign' : 'Signed reports', jobHash(ctx, 'signoff'), { class: 'btn secondary', 'data-test': 'open-signoff' })),
     h('div', { class: 'cols' },
