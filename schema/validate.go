@@ -290,7 +290,7 @@ func (d *SystemDesign) validate(u measure.UnitSystem) error {
 			return Errorf(Invalid, "design.perf_table_csv", "is %d bytes; at most %d are accepted", len(d.PerfTableCSV), maxPerfCSVSize)
 		}
 		if _, err := measure.ParsePerfTableCSV(strings.NewReader(d.PerfTableCSV)); err != nil {
-			return Errorf(Invalid, "design.perf_table_csv", "performance table: %v", err)
+			return Errorf(Invalid, "design.perf_table_csv", "%s", strings.TrimPrefix(err.Error(), "performance table: ")) // the label says it
 		}
 	}
 	return nil

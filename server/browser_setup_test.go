@@ -65,6 +65,20 @@ func TestBrowserSetupJob(t *testing.T) {
 		t.Fatal(err)
 	}
 	code = strings.ReplaceAll(code, "-", "")
+	// A technician on an empty store is told who starts the job.
+	tcode, _, err := app.srv.NewJoinCode(schema.RoleTechnician)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tech := newPage(t, app)
+	tech.navigate("/#join=" + strings.ReplaceAll(tcode, "-", ""))
+	tech.typeInto("[data-test=device-name]", "Phone Ada")
+	tech.click("[data-test=join-submit]")
+	tech.wait("the technician told to ask the lead", q("[data-test=jobs]")+" && "+q("[data-test=jobs]")+".textContent.includes('Ask your lead')")
+	if tech.count("[data-test=new-job], [data-test=edit-screen]") != 0 {
+		t.Error("a technician is offered the new-job form")
+	}
+
 	p := newPage(t, app)
 	p.navigate("/#join=" + code)
 	p.wait("the join link's code in the code field", joinCodeIs(code))
@@ -83,6 +97,7 @@ func TestBrowserSetupJob(t *testing.T) {
 		t.Errorf("the barometric pressure's error reads %q; want it after its label, with its unit, and no internal name", msg)
 	}
 	p.fill("barometric", "14.2")
+	p.screenshots("setup-job", "[data-field=barometric]")
 	p.saveForm()
 	jobs, err := app.db.Jobs(ctx)
 	if err != nil || len(jobs) != 1 {
@@ -175,6 +190,10 @@ func TestBrowserSetupJob(t *testing.T) {
 	}
 
 	// Edit, then delete with its confirming second tap.
+	p.goHash("#/job/" + job.ID)
+	p.waitSel("[data-test=open-setup]")
+	p.screenshots("setup-home", "")
+	p.click("[data-test=open-setup]")
 	p.click(tagSel("edit-outlet", "S-101"))
 	p.fill("design_flow", "275")
 	p.saveForm()

@@ -46,6 +46,7 @@ export function form(kind, groups, rec) {
   };
   el.addEventListener('change', refresh);
   refresh();
+  requestAnimationFrame(refresh); // after a re-render has put back what the user chose
   return {
     el,
     clear() {

@@ -53,7 +53,7 @@ const X = {
     const x = {
       units: { o: o(['ip', 'IP: cfm, in. w.g., °F'], ['si', 'SI: L/s, Pa, °C']), disabled: locked,
         hint: locked ? `Locked: the job holds design data in ${rec.units === 'si' ? 'SI' : 'IP'} units.` : 'Cannot be changed once the job holds design data.' },
-      _air: { o: o(['elevation', 'Site elevation'], ['barometric', 'Measured barometric pressure']), l: 'Air pressure from' },
+      _air: { o: o(['elevation', 'Site elevation'], ['barometric', 'Measured pressure']), l: 'Air pressure from' },
       elevation: { u: (v) => (si(v) ? 'm' : 'ft'), opt: 1, zero: 1, show: is('_air', 'elevation') },
       barometric: { u: (v) => (si(v) ? 'kPa' : 'psia'), opt: 1, show: is('_air', 'barometric') },
     };

@@ -103,7 +103,7 @@ export function render(ctx) {
     h('div', { class: 'actions' },
       link(outboxText, jobHash(ctx, 'outbox'), { class: `btn ${c.rejected ? 'danger' : 'secondary'}`, 'data-test': 'open-outbox' }),
       ctx.role === 'lead' ? link('Set up the job', jobHash(ctx, 'setup'), { class: 'btn', 'data-test': 'open-setup' }) : null,
-      ctx.role === 'lead' ? link('Lead: codes, devices, design', jobHash(ctx, 'lead'), { class: 'btn secondary', 'data-test': 'open-lead' }) : null,
+      ctx.role === 'lead' ? link('Lead: codes, devices, import', jobHash(ctx, 'lead'), { class: 'btn secondary', 'data-test': 'open-lead' }) : null,
       link(ctx.role === 'lead' ? 'Report: preview and sign' : 'Signed reports', jobHash(ctx, 'signoff'), { class: 'btn secondary', 'data-test': 'open-signoff' })),
     h('div', { class: 'cols' },
       h('div', {},

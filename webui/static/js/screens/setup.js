@@ -19,7 +19,7 @@ export function render(ctx) {
   }
   const { job, snapshot: s } = ctx.view;
   const of = (k, id) => (s[k] || []).filter((r) => r.system_id === id);
-  return h('div', { 'data-test': 'setup-screen' },
+  return h('div', { class: 'setup', 'data-test': 'setup-screen' },
     h('div', { class: 'screen-head' }, h('h1', {}, 'Set up the job'), h('p', { class: 'sub' }, job.name)),
     h('section', { class: 'card' },
       h('p', {}, [job.project_number && `Project ${job.project_number}`, job.site_address, job.units === 'si' ? 'SI units' : 'IP units'].filter(Boolean).join(' · ')),
@@ -28,8 +28,8 @@ export function render(ctx) {
     h('div', { class: 'cols' },
       h('div', {},
         [...(s.systems || [])].sort(byTag).map((y) => h('section', { class: 'card', 'data-test': 'setup-system', 'data-tag': y.tag },
-          h('h2', {}, h('a', { href: edit(ctx, 'system', y.id), 'data-test': 'edit-system', 'data-tag': y.tag }, `${y.tag} · ${y.name || kindWord(y.kind)}`)),
-          h('p', { class: 'small muted' }, 'Tap the tag to edit the nameplate and drive data.'),
+          h('h2', {}, `${y.tag} · ${y.name || kindWord(y.kind)}`),
+          h('a', { class: 'btn secondary', href: edit(ctx, 'system', y.id), 'data-test': 'edit-system', 'data-tag': y.tag }, `Edit ${y.tag}: design and nameplate`),
           h('details', { open: of('outlets', y.id).length <= 12 }, h('summary', {}, `Outlets (${of('outlets', y.id).length})`),
             list(ctx, 'outlet', of('outlets', y.id), (o) => `${o.room || ''} · ${kindWord(o.kind)}`)),
           list(ctx, 'traverse', of('traverses', y.id), (t) => `Traverse · ${t.location || ''}`),
