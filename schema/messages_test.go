@@ -24,7 +24,7 @@ func TestMessagesInWords(t *testing.T) {
 	f := func(v float64) *float64 { return &v }
 	cases := []struct {
 		name, field, want string
-		err              error
+		err               error
 	}{
 		{"AccuracyUnit", "accuracy_unit", "the ± value",
 			(&Instrument{JobID: job, Tag: "Hood 1", Kind: "flow_hood", AccuracyAbs: 5}).Validate()},
