@@ -121,7 +121,8 @@ func (l *demoLoader) instruments() error {
 			CalibratedOn: l.date(-120), CalibrationDue: l.date(245), AccuracyPct: 3, AccuracyAbs: 7, AccuracyUnit: "cfm"},
 		// Hood 2 went past its due date weeks ago; the crew used it on day one.
 		{Tag: "Hood 2", Kind: "flow_hood", Model: "demo capture hood", Serial: "DEMO-H2",
-			CalibratedOn: l.date(-400), CalibrationDue: l.date(-35), AccuracyPct: 3, AccuracyAbs: 7, AccuracyUnit: "cfm"},
+			CalibratedOn: l.date(-400), CalibrationDue: l.date(-35), AccuracyPct: 3, AccuracyAbs: 7, AccuracyUnit: "cfm",
+			Remarks: "Sent for calibration after day one; its readings are to be repeated with Hood 1"},
 		{Tag: "Manometer 1", Kind: "manometer", Model: "demo digital manometer", Serial: "DEMO-M1",
 			CalibratedOn: l.date(-60), CalibrationDue: l.date(305), AccuracyPct: 1, AccuracyAbs: 0.002, AccuracyUnit: "in. w.g."},
 		{Tag: "Pitot 1", Kind: "pitot_tube", Model: "demo 36 in pitot tube", Serial: "DEMO-P1"},
@@ -145,20 +146,33 @@ func (l *demoLoader) instruments() error {
 
 func (l *demoLoader) systems() error {
 	l.sys = map[string]*schema.System{}
-	rtu := func(airflow, oa, fanRPM float64) schema.SystemDesign {
+	// Nameplates are of an invented maker; each drive's pitch diameters agree
+	// with its speeds (fan rpm = motor rpm × motor pitch ÷ fan pitch).
+	rtu := func(airflow, oa, fanRPM, motorPitch float64, serial string) schema.SystemDesign {
 		return schema.SystemDesign{Airflow: airflow, OutdoorAir: oa, ExternalStatic: 0.8, RatedTotal: 120_000,
 			RatedSensible: 86_400, MotorHP: 3, FLA: 4.8, Volts: 460, Phase: 3, FanRPM: fanRPM, MotorRPM: 1760,
-			PerfTableCSV: demoPerfTable}
+			PerfTableCSV: demoPerfTable,
+			Make:         demoMaker, Model: "QR-10 (demo)", Serial: serial, MotorMake: demoMotorMaker, MotorFrame: "182T", ServiceFactor: 1.15,
+			FanSheaveSize: "1-groove B, fixed", FanSheavePitch: 9, MotorSheaveSize: "1-groove B, adjustable", MotorSheavePitch: motorPitch,
+			Belts: "1 × B51", FanBushing: "1 3/16 in bore", MotorBushing: "1 1/8 in bore", Filters: "8 × 20×25×2 MERV 8"}
 	}
 	for _, s := range []schema.System{
-		{Tag: "RTU-1", Kind: "rooftop_unit", Name: "Library, ground floor", Location: "Roof, east end", Design: rtu(4000, 800, 1150)},
-		{Tag: "RTU-2", Kind: "rooftop_unit", Name: "Clinic, level 2", Location: "Roof, west end", Design: rtu(3800, 950, 1120)},
+		{Tag: "RTU-1", Kind: "rooftop_unit", Name: "Library, ground floor", Location: "Roof, east end", Design: rtu(4000, 800, 1150, 5.9, "QR10-0417-A")},
+		{Tag: "RTU-2", Kind: "rooftop_unit", Name: "Clinic, level 2", Location: "Roof, west end", Design: rtu(3800, 950, 1120, 5.7, "QR10-0418-A"),
+			Remarks: "Condenser coil fins bent on the north face; reported to the contractor"},
 		{Tag: "AHU-1", Kind: "air_handler", Name: "Level 3: community hall and reading rooms", Location: "Level 3 mechanical room",
 			Design: schema.SystemDesign{Airflow: 6000, OutdoorAir: 1500, ExternalStatic: 1.5, RatedTotal: 216_000,
-				RatedSensible: 160_000, MotorHP: 7.5, FLA: 11, Volts: 460, Phase: 3, FanRPM: 1250, MotorRPM: 1765}},
+				RatedSensible: 160_000, MotorHP: 7.5, FLA: 11, Volts: 460, Phase: 3, FanRPM: 1250, MotorRPM: 1765,
+				Make: demoMaker, Model: "MA-60 (demo)", Serial: "MA60-1123-C", MotorMake: demoMotorMaker, MotorFrame: "213T", ServiceFactor: 1.15,
+				FanSheaveSize: "2-groove B, fixed", FanSheavePitch: 11, MotorSheaveSize: "2-groove B, adjustable", MotorSheavePitch: 7.8,
+				Belts: "2 × B60 (matched set)", FanBushing: "1 7/16 in bore", MotorBushing: "1 3/8 in bore", Filters: "12 × 24×24×2 MERV 13"},
+			Remarks: "Fan section door sticks; use the side access door"},
 		{Tag: "EF-1", Kind: "fan", Name: "Toilet and utility exhaust", Location: "Roof, centre",
 			Design: schema.SystemDesign{Airflow: 1100, ExternalStatic: 0.5, MotorHP: 1, FLA: 2.1, Volts: 460, Phase: 3,
-				FanRPM: 1050, MotorRPM: 1725}},
+				FanRPM: 1050, MotorRPM: 1725,
+				Make: demoMaker, Model: "UX-12 (demo)", Serial: "UX12-0932-B", MotorMake: demoMotorMaker, MotorFrame: "56", ServiceFactor: 1.25,
+				FanSheaveSize: "1-groove A, fixed", FanSheavePitch: 6, MotorSheaveSize: "1-groove A, adjustable", MotorSheavePitch: 3.65,
+				Belts: "1 × A38", FanBushing: "1 in bore", MotorBushing: "5/8 in bore"}},
 	} {
 		s.JobID = l.job.ID
 		if err := schema.Create(l.ctx, l.db, demoActor, &s); err != nil {
@@ -271,11 +285,24 @@ const (
 	techC = "Imke C."
 )
 
+// The demo's invented makers: no real brand.
+const (
+	demoMaker      = "Quillmoor Air (demo maker)"
+	demoMotorMaker = "Brackenfield Motors (demo maker)"
+)
+
+// demoOutletRemarks are remarks on the outlet records (a reading's own
+// remark is its note).
+var demoOutletRemarks = map[string]string{
+	"S-104": "Above the bookshelves: use the tall ladder",
+	"R-101": "Grille behind the lobby display board",
+}
+
 func (l *demoLoader) outlets() error {
 	ids := map[string]string{}
 	for i, d := range demoOutlets {
 		o := schema.Outlet{JobID: l.job.ID, SystemID: l.sys[d.system].ID, Tag: d.tag, Room: d.room, Kind: d.kind,
-			Size: d.size, DesignFlow: d.design, Method: "hood", Factor: d.factor}
+			Size: d.size, DesignFlow: d.design, Method: "hood", Factor: d.factor, Remarks: demoOutletRemarks[d.tag]}
 		if err := schema.Create(l.ctx, l.db, demoActor, &o); err != nil {
 			return fmt.Errorf("demo outlet %s: %w", d.tag, err)
 		}
@@ -375,7 +402,8 @@ func (l *demoLoader) traverse(t *schema.Traverse, flow, rho float64, start time.
 func (l *demoLoader) tests() error {
 	ctx, db := l.ctx, l.db
 	t1 := &schema.Traverse{JobID: l.job.ID, SystemID: l.sys["RTU-1"].ID, Tag: "T-1", Location: "RTU-1 main supply, above the roof curb",
-		Shape: "rect", Method: "log-tchebycheff", Width: 24, Height: 16, PointsW: 6, PointsH: 5}
+		Shape: "rect", Method: "log-tchebycheff", Width: 24, Height: 16, PointsW: 6, PointsH: 5,
+		Remarks: "Ports drilled in the duct's short side; plugged and sealed after the test"}
 	t2 := &schema.Traverse{JobID: l.job.ID, SystemID: l.sys["AHU-1"].ID, Tag: "T-2", Location: "AHU-1 main supply, mechanical room",
 		Shape: "round", Method: "log-tchebycheff", Diameter: 34, PointsPerDiameter: 6, Diameters: 2}
 	for _, t := range []*schema.Traverse{t1, t2} {
@@ -429,7 +457,7 @@ func (l *demoLoader) tests() error {
 		{JobID: l.job.ID, SystemID: l.sys["AHU-1"].ID, Tag: "CHW coil AHU-1", Mode: "cooling", FlowSource: "valve", ValveCv: 12.5, Fluid: "water",
 			DesignFlow: 40, CapacityTest: caps[2].ID},
 		{JobID: l.job.ID, SystemID: l.sys["AHU-1"].ID, Tag: "HW coil AHU-1", Mode: "heating", FlowSource: "valve", ValveCv: 6.3, Fluid: "water",
-			DesignFlow: 18},
+			DesignFlow: 18, Remarks: "Balancing valve above the corridor ceiling by room 305; ladder needed"},
 	}
 	// ΔP across the balancing valve (psi), entering and leaving water (°F).
 	water := [][3]float64{{10.2, 44.2, 56.0}, {8.0, 180.5, 160.2}}

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/csv"
+	"math"
 	"path/filepath"
 	"slices"
 	"testing"
@@ -63,6 +64,31 @@ func TestDemo(t *testing.T) {
 	}
 	if n := len(s.Outlets); n < 55 || n > 70 {
 		t.Errorf("%d outlets, want about 60", n)
+	}
+	// Every system carries a nameplate and its drive, and each drive's pitch
+	// diameters agree with its speeds to 2 % (fan rpm = motor rpm × motor
+	// pitch ÷ fan pitch, the belt-drive ratio; common practice).
+	remarks := 0
+	for _, sys := range s.Systems {
+		d := sys.Design
+		if d.Make == "" || d.Model == "" || d.Serial == "" || d.MotorFrame == "" || d.Belts == "" || d.FanSheavePitch == 0 || d.MotorSheavePitch == 0 {
+			t.Errorf("system %s has no full nameplate and drive: %+v", sys.Tag, d)
+			continue
+		}
+		if got := d.MotorRPM * d.MotorSheavePitch / d.FanSheavePitch; math.Abs(got/d.FanRPM-1) > 0.02 {
+			t.Errorf("system %s: its sheaves drive the fan at %.0f rpm, its design says %.0f", sys.Tag, got, d.FanRPM)
+		}
+		if sys.Remarks != "" {
+			remarks++
+		}
+	}
+	for _, o := range s.Outlets {
+		if o.Remarks != "" {
+			remarks++
+		}
+	}
+	if remarks < 3 {
+		t.Errorf("%d systems and outlets carry a remark; want a few to show remarks in the app and report", remarks)
 	}
 	current := schema.CurrentReadings(s.Readings)
 	voids, supersedes := 0, 0

@@ -525,7 +525,7 @@ func Create[T designRecord](ctx context.Context, db *DB, a Actor, rec T) error {
 func Update[T designRecord](ctx context.Context, db *DB, a Actor, rec T) error {
 	k, keys := rec.kind(), rec.keys()
 	if !validUUID(*keys.id) || !validUUID(*keys.jobID) {
-		return Errorf(NotFound, "id", "%s %q not found", k.entity, *keys.id)
+		return Errorf(NotFound, "id", "%s %q not found", words(k.entity), *keys.id)
 	}
 	at, now := db.stamp()
 	err := db.writeTx(ctx, func(tx *sql.Tx) error {
@@ -555,14 +555,14 @@ func Delete[T designRecord](ctx context.Context, db *DB, a Actor, jobID, id stri
 	var zero T
 	k := zero.kind()
 	if !validUUID(id) || !validUUID(jobID) {
-		return Errorf(NotFound, "id", "%s %q not found", k.entity, id)
+		return Errorf(NotFound, "id", "%s %q not found", words(k.entity), id)
 	}
 	at, now := db.stamp()
 	err := db.writeTx(ctx, func(tx *sql.Tx) error {
 		var tag string
 		err := tx.QueryRow("SELECT tag FROM "+k.table+" WHERE id = ? AND job_id = ? AND deleted = 0", id, jobID).Scan(&tag)
 		if errors.Is(err, sql.ErrNoRows) {
-			return Errorf(NotFound, "id", "%s %s not found in this job", k.entity, id)
+			return Errorf(NotFound, "id", "%s %s not found in this job", words(k.entity), id)
 		}
 		if err != nil {
 			return err
@@ -581,7 +581,7 @@ func Delete[T designRecord](ctx context.Context, db *DB, a Actor, jobID, id stri
 		}
 		if len(still) > 0 {
 			return Errorf(Conflict, "id", "%s %s still has %s; delete or move them first",
-				strings.ReplaceAll(k.entity, "_", " "), tag, strings.Join(still, ", "))
+				words(k.entity), tag, strings.Join(still, ", "))
 		}
 		seq, err := nextSeq(tx, jobID)
 		if err != nil {
@@ -601,7 +601,7 @@ func Get[T designRecord](ctx context.Context, db *DB, jobID, id string) (T, erro
 	var zero T
 	k := zero.kind()
 	if !validUUID(id) || !validUUID(jobID) {
-		return zero, Errorf(NotFound, "id", "%s %q not found", k.entity, id)
+		return zero, Errorf(NotFound, "id", "%s %q not found", words(k.entity), id)
 	}
 	rec, ok := zero.blank().(T)
 	if !ok {
@@ -612,7 +612,7 @@ func Get[T designRecord](ctx context.Context, db *DB, jobID, id string) (T, erro
 			" WHERE id = ? AND job_id = ? AND deleted = 0", id, jobID)
 		err := scanRecord(row, rec)
 		if errors.Is(err, sql.ErrNoRows) {
-			return Errorf(NotFound, "id", "%s %s not found in this job", k.entity, id)
+			return Errorf(NotFound, "id", "%s %s not found in this job", words(k.entity), id)
 		}
 		return err
 	})
@@ -672,7 +672,7 @@ func constraintError(err error, k *recordKind, keys recordKeys) error {
 	case isConstraint(err, sqlite3.ErrConstraintPrimaryKey):
 		return Errorf(Conflict, "id", "a record with id %s already exists", *keys.id)
 	case isConstraint(err, sqlite3.ErrConstraintUnique):
-		return Errorf(Conflict, "tag", "another %s in this job is tagged %q", strings.ReplaceAll(k.entity, "_", " "), keys.tag)
+		return Errorf(Conflict, "tag", "another %s in this job is tagged %q", words(k.entity), keys.tag)
 	case isConstraint(err, sqlite3.ErrConstraintForeignKey):
 		return Errorf(Invalid, "job_id", "refers to a record that does not exist")
 	}

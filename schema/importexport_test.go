@@ -236,7 +236,7 @@ func TestScheduleOutletProblems(t *testing.T) {
 		{"ErrValidateRange", "tag,kind,design_flow,system\nS-1,S,60000,RTU-1\n", snap, 2, "design_flow", "50,000 cfm"},
 		{"ErrValidateFactor", "tag,kind,design_flow,system,factor\nS-1,S,100,RTU-1,9\n", snap, 2, "factor", "0.2 to 5"},
 		{"ErrAkMissing", "tag,kind,design_flow,system,method\nS-1,S,100,RTU-1,ak\n", snap, 2, "ak", "is required"},
-		{"ErrMethod", "tag,kind,design_flow,system,method\nS-1,S,100,RTU-1,vane\n", snap, 2, "method", "hood, ak"},
+		{"ErrMethod", "tag,kind,design_flow,system,method\nS-1,S,100,RTU-1,vane\n", snap, 2, "method", `"hood", "ak"`},
 		{"ErrTooManyFields", "tag,kind,design_flow,system\nS-1,S,100,RTU-1,extra\n", snap, 2, "", "5 fields"},
 		{"ErrNoTag", "tag,kind,design_flow,system\n ,S,100,RTU-1\n", snap, 2, "tag", "is required"},
 		{"ErrUnterminatedQuote", "tag,kind,design_flow,system\n\"S-1,S,100,RTU-1\n", snap, 2, "kind", "is required"},

@@ -265,12 +265,12 @@ func (r *Reading) spec() (*QuantitySpec, unitDef, error) {
 	q, ok := quantityIndex[[2]string{r.SubjectKind, r.Quantity}]
 	if !ok {
 		return nil, unitDef{}, Errorf(Invalid, "quantity", "%q is not read on a %s; accepted quantities are %s",
-			r.Quantity, r.SubjectKind, strings.Join(quantityNames(r.SubjectKind), ", "))
+			r.Quantity, words(r.SubjectKind), wordList(quantityNames(r.SubjectKind)))
 	}
 	u, ok := unitDefs[r.Unit]
 	if !ok || u.dim != q.Dimension || !hasString(q.Units, r.Unit) {
-		return nil, unitDef{}, Errorf(Invalid, "unit", "%q is not a unit of %s %s; accepted units are %s",
-			r.Unit, r.SubjectKind, r.Quantity, qtyUnitList(q.Units))
+		return nil, unitDef{}, Errorf(Invalid, "unit", "%q is not a unit of the %s; accepted units are %s",
+			r.Unit, q.Description, qtyUnitList(q.Units))
 	}
 	return &q, u, nil
 }
@@ -306,8 +306,8 @@ func checkValue(q *QuantitySpec, unit string, u unitDef, v float64) error {
 	if inRange >= q.Min && inRange <= q.Max && !math.IsNaN(inRange) {
 		return nil
 	}
-	msg := "%s %s is outside the accepted range for %s %s: %s to %s%s"
-	args := []any{fmtValue(v), unit, q.SubjectKind, q.Quantity, fmtValue(u.fromSI(ru.toSI(q.Min))), fmtValue(u.fromSI(ru.toSI(q.Max))), qtySuffix(unit)}
+	msg := "%s %s is outside the accepted range for the %s: %s to %s%s"
+	args := []any{fmtValue(v), unit, q.Description, fmtValue(u.fromSI(ru.toSI(q.Min))), fmtValue(u.fromSI(ru.toSI(q.Max))), qtySuffix(unit)}
 	if unit != q.RangeUnit {
 		msg += " (%s to %s%s)"
 		args = append(args, fmtValue(q.Min), fmtValue(q.Max), qtySuffix(q.RangeUnit))
@@ -332,7 +332,7 @@ func (r Reading) siValue(dim Dimension) (float64, error) {
 		return 0, err
 	}
 	if q.Dimension != dim {
-		return 0, Errorf(Invalid, "quantity", "%s %s is a %s, not a %s", r.SubjectKind, r.Quantity, q.Dimension, dim)
+		return 0, Errorf(Invalid, "quantity", "the %s is a %s, not a %s", q.Description, q.Dimension, dim)
 	}
 	if r.Value == nil {
 		return 0, Errorf(Invalid, "value", "the reading has no value (a void)")
@@ -393,7 +393,7 @@ func (r Reading) Number() (float64, error) {
 	case DimPercent, DimSpeed, DimVoltage, DimCurrent, DimRatio:
 		return r.siValue(q.Dimension)
 	}
-	return 0, Errorf(Invalid, "quantity", "%s %s is a %s; read it with its typed accessor", r.SubjectKind, r.Quantity, q.Dimension)
+	return 0, Errorf(Invalid, "quantity", "the %s is a %s; read it with its typed accessor", q.Description, q.Dimension)
 }
 
 // DefaultUnit is the unit a reading of q is entered in on a job in unit system
@@ -420,4 +420,13 @@ func UnitLabels() map[string]string {
 		UnitBar: "bar", UnitDegF: "°F", UnitDegC: "°C", UnitPercent: "%", UnitRPM: "rpm", UnitVolt: "V", UnitAmp: "A",
 		UnitInch: "in", UnitMm: "mm", UnitNone: "",
 	}
+}
+
+// quantityWords is a quantity as a message says it: its description, or its
+// name in words when the pair is unknown.
+func quantityWords(subjectKind, quantity string) string {
+	if q, ok := quantityIndex[[2]string{subjectKind, quantity}]; ok {
+		return q.Description
+	}
+	return words(quantity)
 }

@@ -248,7 +248,7 @@ func TestQuantitiesValidate(t *testing.T) {
 func TestQuantitiesRangeMessage(t *testing.T) {
 	r := testReading(SubjectOutlet, "flow", UnitCFM, 60000)
 	err := r.Validate(testNow)
-	want := "value: 60,000 cfm is outside the accepted range for outlet flow: 0 to 52972 cfm (0 to 25,000 L/s)"
+	want := "value: 60,000 cfm is outside the accepted range for the outlet airflow read with a flow hood: 0 to 52972 cfm (0 to 25,000 L/s)"
 	if err == nil || err.Error() != want {
 		t.Errorf("got %v\nwant %s", err, want)
 	}

@@ -121,7 +121,7 @@ func checkPoint(q *QuantitySpec, p int) error {
 	switch q.Points {
 	case PointTraverse:
 		if p < 1 {
-			return Errorf(Invalid, "point", "%s %s needs the traverse point, 1 or more", q.SubjectKind, q.Quantity)
+			return Errorf(Invalid, "point", "is required: the %s needs its point, 1 or more", q.Description)
 		}
 	case PointLeg:
 		if p < 0 || p > maxLeg {
@@ -129,7 +129,7 @@ func checkPoint(q *QuantitySpec, p int) error {
 		}
 	default:
 		if p != 0 {
-			return Errorf(Invalid, "point", "is %d; %s %s has no points, so it must be 0", p, q.SubjectKind, q.Quantity)
+			return Errorf(Invalid, "point", "is %d; the %s has no points, so it must be 0", p, q.Description)
 		}
 	}
 	return nil
@@ -391,11 +391,11 @@ func checkSupersedes(queryRow func(query string, args ...any) rowScanner, jobID 
 	case err != nil:
 		return fmt.Errorf("look up reading %s: %w", r.Supersedes, err)
 	case kind != r.SubjectKind || subject != r.SubjectID:
-		return Errorf(Invalid, "supersedes", "reading %s is of another subject (%s %s); a correction or void must be of the same one",
-			r.Supersedes, kind, subject)
+		return Errorf(Invalid, "supersedes", "reading %s is of another record (%s %s); a correction or void must be of the same one",
+			r.Supersedes, words(kind), subject)
 	case quantity != r.Quantity || point != r.Point || stage != r.Stage:
-		return Errorf(Invalid, "supersedes", "reading %s is %s at point %d, %s; a correction or void must be of the same quantity, point and stage",
-			r.Supersedes, quantity, point, stage)
+		return Errorf(Invalid, "supersedes", "reading %s is the %s at point %d, %s; a correction or void must be of the same quantity, point and stage",
+			r.Supersedes, quantityWords(kind, quantity), point, words(stage))
 	}
 	return nil
 }
@@ -461,7 +461,7 @@ func (b *readingBatch) exists(table, field, id, query string, args ...any) error
 	err := b.st.QueryRow(query, args...).Scan(&one)
 	switch {
 	case errors.Is(err, sql.ErrNoRows):
-		err = Errorf(Invalid, field, "no %s %s here", strings.TrimSuffix(table, "s"), id)
+		err = Errorf(Invalid, field, "no %s %s here", words(strings.TrimSuffix(table, "s")), id)
 	case err != nil:
 		return fmt.Errorf("look up %s %s: %w", table, id, err)
 	}

@@ -314,11 +314,11 @@ func TestReadingsAddErrors(t *testing.T) {
 		{"ErrSupersedesOtherSubject", func(r *Reading) {
 			r.SubjectKind, r.SubjectID, r.Quantity, r.Unit = SubjectSystem, f.system, "fan_rpm", UnitRPM
 			r.Supersedes = base.ID
-		}, "supersedes", "another subject"},
+		}, "supersedes", "another record"},
 		{"ErrSupersedesItself", func(r *Reading) { r.Supersedes = r.ID }, "supersedes", "itself"},
 		{"ErrVoidWithoutTarget", func(r *Reading) { r.Void, r.Value = true, nil }, "supersedes", "void must name"},
 		{"ErrVoidWithValue", func(r *Reading) { r.Void, r.Supersedes = true, base.ID }, "value", "no value"},
-		{"ErrStage", func(r *Reading) { r.Stage = "as found" }, "stage", "as_found, final"},
+		{"ErrStage", func(r *Reading) { r.Stage = "as found" }, "stage", `"as_found", "final"`},
 		{"ErrTechnicianLong", func(r *Reading) { r.Technician = strings.Repeat("é", 81) }, "technician", "at most 80"},
 		{"ErrNoteLong", func(r *Reading) { r.Note = strings.Repeat("x", 501) }, "note", "at most 500"},
 		{"ErrNoteControl", func(r *Reading) { r.Note = "a\x00b" }, "note", "control"},

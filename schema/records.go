@@ -2,6 +2,7 @@ package schema
 
 import (
 	"regexp"
+	"strconv"
 	"strings"
 	"time"
 	"unicode/utf8"
@@ -283,5 +284,49 @@ func checkOneOf(field, s string, allowed []string) error {
 			return nil
 		}
 	}
-	return Errorf(Invalid, field, "%q is not accepted; accepted values are %s", s, strings.Join(allowed, ", "))
+	return Errorf(Invalid, field, "%q is not accepted; accepted values are %s", s, quotedList(allowed))
+}
+
+// quotedList is codes as values to type: "as_found", "final". A value that
+// was not accepted is answered with what to send instead, literally.
+func quotedList(codes []string) string {
+	out := make([]string, len(codes))
+	for i, c := range codes {
+		out[i] = strconv.Quote(c)
+	}
+	return strings.Join(out, ", ")
+}
+
+// codeWords are the words a message uses for a code that does not read as
+// one ("pg"); other codes read with their underscores as spaces.
+var codeWords = map[string]string{
+	"pg": "propylene glycol", "eg": "ethylene glycol", "ip": "IP", "si": "SI", "rect": "rectangular",
+	"log-tchebycheff": "log-Tchebycheff", "hood": "flow hood", "ak": "velocity × Ak",
+	"standard": "standard air", "enter": "entering air", "leave": "leaving air",
+}
+
+// words is a code as a message says it: "outdoor_air" → "outdoor air". A
+// message names things in words, never by their JSON codes.
+func words(code string) string {
+	if w, ok := codeWords[code]; ok {
+		return w
+	}
+	return strings.ReplaceAll(code, "_", " ")
+}
+
+func wordList(codes []string) string {
+	out := make([]string, len(codes))
+	for i, c := range codes {
+		out[i] = words(c)
+	}
+	return strings.Join(out, ", ")
+}
+
+// orList is codes in words as a choice: "cooling or heating", "a, b or c".
+func orList(codes []string) string {
+	s := wordList(codes)
+	if i := strings.LastIndex(s, ", "); i >= 0 {
+		s = s[:i] + " or " + s[i+2:]
+	}
+	return s
 }

@@ -95,7 +95,7 @@ func (j *Job) UnitSystem() (measure.UnitSystem, error) {
 	case "si":
 		return measure.SI, nil
 	case "":
-		return 0, Errorf(Invalid, "units", "is required: ip or si")
+		return 0, Errorf(Invalid, "units", "is required: IP or SI")
 	}
 	return 0, Errorf(Invalid, "units", "%q is not accepted; accepted values are ip, si", j.Units)
 }
@@ -200,7 +200,7 @@ func (r *Instrument) Validate() error {
 		return err
 	}
 	if r.AccuracyAbs > 0 && strings.TrimSpace(r.AccuracyUnit) == "" {
-		return Errorf(Invalid, "accuracy_unit", "is required when accuracy_abs is given (e.g. cfm, °F, %%RH)")
+		return Errorf(Invalid, "accuracy_unit", "is required when the ± value is given (e.g. cfm, °F, %%RH)")
 	}
 	return nil
 }
@@ -290,7 +290,7 @@ func (d *SystemDesign) validate(u measure.UnitSystem) error {
 			return Errorf(Invalid, "design.perf_table_csv", "is %d bytes; at most %d are accepted", len(d.PerfTableCSV), maxPerfCSVSize)
 		}
 		if _, err := measure.ParsePerfTableCSV(strings.NewReader(d.PerfTableCSV)); err != nil {
-			return Errorf(Invalid, "design.perf_table_csv", "performance table: %v", err)
+			return Errorf(Invalid, "design.perf_table_csv", "%s", strings.TrimPrefix(err.Error(), "performance table: ")) // the label says it
 		}
 	}
 	return nil
@@ -468,7 +468,8 @@ func (r *CapacityTest) Validate() error {
 			return err
 		}
 	} else if r.TraverseID != "" {
-		return Errorf(Invalid, "traverse_id", "applies only when flow_source is traverse; leave it empty for %s", r.FlowSource)
+		return Errorf(Invalid, "traverse_id", "applies only when the airflow comes from a traverse; leave it empty for %s",
+			map[string]string{"outlets": "the outlets' sum", "direct": "a direct reading"}[r.FlowSource])
 	}
 	if r.FlowSource == "direct" || r.FlowBasis != "" {
 		if err := checkKind("flow_basis", r.FlowBasis, capacityFlowBases); err != nil {
@@ -564,14 +565,14 @@ func checkTexts(fields ...textField) error {
 // checkKind is checkOneOf with a clearer message for a missing value.
 func checkKind(field, s string, allowed []string) error {
 	if s == "" {
-		return Errorf(Invalid, field, "is required; accepted values are %s", strings.Join(allowed, ", "))
+		return Errorf(Invalid, field, "is required: %s", orList(allowed))
 	}
 	return checkOneOf(field, s, allowed)
 }
 
 func checkUnitSystem(u measure.UnitSystem) error {
 	if u != measure.IP && u != measure.SI {
-		return Errorf(Invalid, "units", "the job's unit system is not set (ip or si)")
+		return Errorf(Invalid, "units", "the job's unit system is not set (IP or SI)")
 	}
 	return nil
 }
@@ -652,6 +653,9 @@ func fromMeasure(field string, err error) error {
 		field = ie.Input
 	}
 	v := fmtValue(ie.Value) + unitText(ie.Unit)
+	if ie.Reason != "" && (ie.Input == "method" || ie.Input == "shape" || ie.Input == "fluid") {
+		return Errorf(Invalid, field, "%s", ie.Reason) // the value is measure's enum number: no use to anyone
+	}
 	if ie.Reason != "" {
 		return Errorf(Invalid, field, "%s: %s", v, ie.Reason)
 	}

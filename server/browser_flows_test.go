@@ -601,7 +601,7 @@ func TestBrowserServerRestart(t *testing.T) {
 // thumb): the server refuses it, and the outbox shows it with the server's
 // reason until it is discarded.
 func TestBrowserRejectedValue(t *testing.T) {
-	rejectedEntry(t, 0, "99999999", "is outside the accepted range for outlet flow")
+	rejectedEntry(t, 0, "99999999", "is outside the accepted range for the outlet airflow")
 }
 
 // TestBrowserRejectedClock enters a good value from a phone whose clock is an

@@ -6,7 +6,7 @@
 // answers are never cached here; the app keeps job data in IndexedDB.
 // Browsers run a service worker only in a secure context (https, or localhost).
 
-const VERSION = 'fieldtab-app-v3'; // bump when the list or the caching changes
+const VERSION = 'fieldtab-app-v4'; // bump when the list or the caching changes
 const REFRESH_MS = 60000;
 let refreshedAt = 0; // in memory: a restarted worker refreshes on the next load
 
@@ -24,6 +24,8 @@ const SHELL = [
   'js/sync.js',
   'js/quantities.js',
   'js/chart.js',
+  'js/labels.js',
+  'js/form.js',
   'js/screens/join.js',
   'js/screens/jobs.js',
   'js/screens/home.js',
@@ -37,6 +39,8 @@ const SHELL = [
   'js/screens/fan.js',
   'js/screens/entry.js',
   'js/screens/signoff.js',
+  'js/screens/setup.js',
+  'js/screens/edit.js',
 ];
 
 // refresh fetches every file of the list, each on its own so a file missing

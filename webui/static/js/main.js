@@ -13,9 +13,10 @@ import { q } from './quantities.js';
 const SCREENS = {
   join: 'join', jobs: 'jobs', home: 'home', outlets: 'outlets', outlet: 'outlet', traverse: 'traverse',
   capacity: 'capacity', water: 'water', fan: 'fan', outbox: 'outbox', lead: 'lead', signoff: 'signoff',
+  setup: 'setup', edit: 'edit', newjob: 'edit',
 };
 // Screens that need the job's view before they can show anything.
-const NEEDS_VIEW = new Set(['home', 'outlets', 'outlet', 'traverse', 'capacity', 'water', 'fan', 'lead']);
+const NEEDS_VIEW = new Set(['home', 'outlets', 'outlet', 'traverse', 'capacity', 'water', 'fan', 'lead', 'setup', 'edit']);
 
 const app = document.getElementById('app');
 const top = document.getElementById('top');
@@ -35,6 +36,7 @@ function parse(hash) {
   const p = path.split('/').filter(Boolean).map((s) => { try { return decodeURIComponent(s); } catch { return s; } });
   if (!p.length) return { name: 'jobs', params };
   if (p[0] === 'join') return { name: 'join', params };
+  if (p[0] === 'new-job') return { name: 'newjob', params: { ...params, kind: 'job' } };
   if (p[0] === 'jobs') return { name: 'jobs', params: { ...params, list: '1' } };
   if (p[0] === 'job' && p[1]) {
     const jobId = p[1];
@@ -42,6 +44,8 @@ function parse(hash) {
     if (!sub) return { name: 'home', jobId, params };
     const byId = { system: 'outlets', outlet: 'outlet', traverse: 'traverse', capacity: 'capacity', water: 'water', fan: 'fan' };
     if (byId[sub] && id) return { name: byId[sub], jobId, params: { ...params, id } };
+    if (sub === 'setup') return { name: sub, jobId, params };
+    if (sub === 'edit' && id) return { name: sub, jobId, params: { ...params, kind: id, id: p[4] || '' } };
     if (sub === 'outbox' || sub === 'lead' || sub === 'signoff') return { name: sub, jobId, params };
   }
   return { name: 'notfound', params };
@@ -52,6 +56,7 @@ function parentOf(r, view) {
   if (!r.jobId) return null;
   const job = `#/job/${encodeURIComponent(r.jobId)}`;
   if (r.name === 'home') return '#/jobs';
+  if (r.name === 'edit') return `${job}/setup`;
   if (r.name === 'outlet' && view) {
     const o = (view.snapshot.outlets || []).find((x) => x.id === r.params.id);
     if (o) return `${job}/system/${encodeURIComponent(o.system_id)}`;

@@ -29,6 +29,9 @@ export async function render(ctx) {
     }
   }
 
+  const lead = ctx.role === 'lead';
+  // An empty store: the lead starts the first job right here.
+  if (!jobs.length && lead && !problem) return (await import('./edit.js')).render(ctx);
   return h('div', { 'data-test': 'jobs' },
     h('div', { class: 'screen-head' }, h('h1', {}, 'Jobs')),
     problem ? message(jobs.length ? 'info' : 'error', problem) : null,
@@ -37,6 +40,7 @@ export async function render(ctx) {
         h('li', {}, h('a', { class: 'item', href: `#/job/${encodeURIComponent(j.id)}`, 'data-test': 'job-item', 'data-name': j.name },
           h('span', { class: 'tag' }, j.name),
           h('span', { class: 'room' }, [j.site_address, j.status].filter(Boolean).join(' · ')))))) :
-        h('p', {}, 'No jobs yet. The lead creates a job, or imports one, on the laptop running fieldtab.')),
-    h('p', {}, h('a', { class: 'btn secondary', href: '#/join' }, 'Join with another code')));
+        h('p', {}, 'No jobs yet. Ask your lead to create the job in the app.')),
+    h('p', { class: 'actions' }, lead ? h('a', { class: 'btn', href: '#/new-job', 'data-test': 'new-job' }, 'New job') : null,
+      h('a', { class: 'btn secondary', href: '#/join' }, 'Join with another code')));
 }

@@ -1,9 +1,9 @@
-// Lead's tools: join codes (text and QR), devices with revoke, the CSV
-// schedule import with its preview, and a small outlet design editor.
+// Lead's tools: join codes (text and QR), devices with revoke, and the CSV
+// schedule import with its preview. Design records are edited in Set up.
 // The server checks the role too; this screen only hides what a technician
 // may not do.
 
-import { h, fmt, button, select, field, message, clear, kindWord, parseNumber, dateTimeText, timeText } from '../ui.js';
+import { h, fmt, button, select, field, message, clear, kindWord, dateTimeText, timeText, link, jobHash } from '../ui.js';
 import { enc } from '../api.js';
 
 // Kept across re-renders (a sync update every few seconds must not wipe a
@@ -11,9 +11,6 @@ import { enc } from '../api.js';
 let lastCode = null;          // {code, role, expires_at, join_url, qr_png}
 let devices = { at: 0, list: null, error: '' };
 let preview = null;           // {kind, text, problems, report}
-let editId = null;            // outlet being edited, or 'new'
-let editMsg = null;           // {kind, text}
-let editParam = null;         // the ?outlet= last followed
 let draft = { kind: 'outlets', text: '' }; // the import text as typed
 
 function joinCodeCard(ctx) {
@@ -170,110 +167,17 @@ function importCard(ctx) {
     summary, problems);
 }
 
-function outletEditor(ctx) {
-  const snap = ctx.view.snapshot;
-  const u = ctx.view.results.units || {};
-  const systems = snap.systems || [];
-  const sysTag = new Map(systems.map((s) => [s.id, s.tag]));
-  const outlets = [...(snap.outlets || [])].sort((a, b) =>
-    (sysTag.get(a.system_id) || '').localeCompare(sysTag.get(b.system_id) || '') || a.tag.localeCompare(b.tag, undefined, { numeric: true }));
-  if (editId === null) editId = ctx.params.outlet || (outlets[0] && outlets[0].id) || 'new';
-  if (editId !== 'new' && !outlets.some((o) => o.id === editId)) editId = outlets[0] ? outlets[0].id : 'new';
-
-  const pick = select({ id: 'edit-outlet-pick', 'data-test': 'edit-outlet-pick' },
-    [...outlets.map((o) => [o.id, `${sysTag.get(o.system_id) || '?'} · ${o.tag} · ${o.room}`]), ['new', '+ New outlet']], editId);
-  const formBox = h('div');
-  const msg = h('div', { 'aria-live': 'polite' });
-  if (editMsg) msg.append(message(editMsg.kind, editMsg.text, { 'data-test': 'edit-message' }));
-
-  const build = () => {
-    clear(formBox);
-    const rec = editId === 'new'
-      ? { system_id: (systems[0] || {}).id || '', tag: '', room: '', kind: 'supply', size: '', design_flow: null, method: 'hood', factor: 1, ak: null }
-      : outlets.find((o) => o.id === editId);
-    const k = { 'data-key': editId };
-    const inp = (test, value, extra) => h('input', { 'data-test': test, ...k, value: value ?? null, autocomplete: 'off', ...extra });
-    const f = {
-      system: select({ 'data-test': 'edit-system', ...k }, systems.map((s) => [s.id, `${s.tag} · ${s.name}`]), rec.system_id),
-      tag: inp('edit-tag', rec.tag, { maxlength: '40' }),
-      room: inp('edit-room', rec.room),
-      kind: select({ 'data-test': 'edit-kind', ...k }, ['supply', 'return', 'exhaust', 'outdoor_air'].map((x) => [x, kindWord(x)]), rec.kind),
-      size: inp('edit-size', rec.size, { maxlength: '40' }),
-      design_flow: inp('edit-design_flow', rec.design_flow, { inputmode: 'decimal' }),
-      method: select({ 'data-test': 'edit-method', ...k }, [['hood', 'Flow hood × factor'], ['ak', 'Velocity × Ak']], rec.method || 'hood'),
-      factor: inp('edit-factor', rec.factor || 1, { inputmode: 'decimal' }),
-      ak: inp('edit-ak', rec.ak || null, { inputmode: 'decimal' }),
-    };
-    const err = h('p', { class: 'msg msg-error', role: 'alert', hidden: true });
-    const save = button(editId === 'new' ? 'Add the outlet' : 'Save the design data', { 'data-test': 'edit-save' }, async () => {
-      err.hidden = true;
-      const num = (el, name, required) => {
-        const v = parseNumber(el.value);
-        if (v === null && (required || el.value.trim())) throw new Error(`${name}: type a number.`);
-        return v ?? 0;
-      };
-      let body;
-      try {
-        body = {
-          ...(editId === 'new' ? {} : rec),
-          system_id: f.system.value, tag: f.tag.value.trim(), room: f.room.value.trim(), kind: f.kind.value, size: f.size.value.trim(),
-          design_flow: num(f.design_flow, 'Design flow', true), method: f.method.value,
-          factor: f.method.value === 'hood' ? num(f.factor, 'Factor', true) : (num(f.factor, 'Factor') || 1),
-          ak: f.method.value === 'ak' ? num(f.ak, 'Ak', true) : num(f.ak, 'Ak'),
-        };
-      } catch (e) { err.textContent = e.message; err.hidden = false; return; }
-      save.disabled = true;
-      try {
-        const path = `/jobs/${enc(ctx.jobId)}/outlets`;
-        const res = editId === 'new' ? await ctx.api.post(path, body) : await ctx.api.put(`${path}/${enc(editId)}`, body);
-        editId = res.id || editId;
-        editMsg = { kind: 'ok', text: `Saved ${res.tag || body.tag}.` };
-        for (const el of Object.values(f)) delete el.dataset.dirty;
-        await ctx.sync.refresh();
-        ctx.rerender();
-      } catch (e) {
-        err.textContent = e.field ? `${e.field}: ${e.message}` : e.message;
-        err.hidden = false;
-      } finally {
-        save.disabled = false;
-      }
-    });
-    formBox.append(h('div', { class: 'form-grid' },
-      field('System', f.system),
-      field('Tag', f.tag),
-      field('Room', f.room),
-      field('Kind', f.kind),
-      field('Size', f.size, 'As scheduled, e.g. 24x24 or 10 in round'),
-      field(`Design flow (${u.air_flow || ''})`, f.design_flow),
-      field('Method', f.method),
-      field('Hood factor', f.factor, '1 when the hood reads the outlet as it is'),
-      field(`Ak (${u.area || ''})`, f.ak, 'Effective area, for velocity × Ak')), err, save);
-  };
-  pick.addEventListener('change', () => { editId = pick.value; editMsg = null; clear(msg); build(); });
-  build();
-
-  return h('section', { class: 'card', 'data-test': 'edit-outlet' },
-    h('h2', {}, 'Outlet design data'),
-    field('Outlet', pick),
-    msg, formBox);
-}
-
 export async function render(ctx) {
   if (ctx.role !== 'lead') {
     return h('section', { class: 'card', 'data-test': 'lead-denied' },
       h('h2', {}, 'For the lead\'s device'),
       h('p', {}, 'Join codes, devices and design data are managed from the lead\'s device.'));
   }
-  if (ctx.params.outlet && ctx.params.outlet !== editParam) {
-    editParam = ctx.params.outlet;
-    editId = ctx.params.outlet;
-    editMsg = null;
-  }
   await loadDevices(ctx, false);
   return h('div', { 'data-test': 'lead-screen' },
     h('div', { class: 'screen-head' }, h('h1', {}, 'Lead'), h('p', { class: 'sub' }, ctx.view.job.name)),
     h('div', { class: 'cols' },
       h('div', {}, joinCodeCard(ctx), devicesCard(ctx)),
-      h('div', {}, importCard(ctx), outletEditor(ctx))),
+      h('div', {}, importCard(ctx), h('p', {}, link('Set up the job: systems, outlets, tests', jobHash(ctx, 'setup'), { class: 'btn secondary', 'data-test': 'open-setup' })))),
     h('p', { class: 'small muted' }, `Units: ${ctx.units === 'si' ? 'SI' : 'IP'}; design flows in ${(ctx.view.results.units || {}).air_flow || ''}. ${fmt(ctx.view.snapshot.outlets.length, 0)} outlets on this job.`));
 }

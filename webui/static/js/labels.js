@@ -1,0 +1,54 @@
+// Words for the fields the server can name in an error, per kind of record,
+// so a message reads "Design airflow is required", never "design.airflow".
+// The forms use the same words. A Go test checks every field has one.
+
+export const LABELS = {
+  any: { id: 'Record', job_id: 'Job', system_id: 'System', tag: 'Tag', name: 'Name', location: 'Location', remarks: 'Remarks', units: 'Units', kind: 'Kind' },
+  job: {
+    name: 'Job name', site_address: 'Site address', client: 'Client', engineer: 'Engineer', contractor: 'Contractor',
+    tab_firm: 'Balancing firm', project_number: 'Project number', elevation: 'Site elevation', barometric: 'Barometric pressure',
+    status: 'Status', 'tolerances.outlet_low_pct': 'Outlets, below design', 'tolerances.outlet_high_pct': 'Outlets, above design',
+    'tolerances.fan_low_pct': 'Fans, below design', 'tolerances.fan_high_pct': 'Fans, above design',
+    'tolerances.hydronic_low_pct': 'Water flow, below design', 'tolerances.hydronic_high_pct': 'Water flow, above design',
+  },
+  instrument: {
+    kind: 'Instrument', make: 'Make', model: 'Model', serial: 'Serial number', calibrated_on: 'Calibrated on',
+    calibration_due: 'Calibration due', accuracy_pct: 'Accuracy, ± % of reading', accuracy_abs: 'Accuracy, ± value', accuracy_unit: 'Unit of the ± value',
+  },
+  system: {
+    kind: 'Kind of system', 'design.airflow': 'Design airflow', 'design.outdoor_air': 'Design outdoor air',
+    'design.external_static': 'External static pressure', 'design.rated_total': 'Rated total capacity',
+    'design.rated_sensible': 'Rated sensible capacity', 'design.water_flow': 'Design water flow', 'design.perf_table_csv': 'Performance table',
+    'design.make': 'Unit make', 'design.model': 'Unit model', 'design.serial': 'Unit serial number', 'design.motor_make': 'Motor make',
+    'design.motor_hp': 'Motor power', 'design.volts': 'Motor volts', 'design.phase': 'Phase', 'design.fla': 'Full-load amps',
+    'design.motor_rpm': 'Motor speed', 'design.fan_rpm': 'Fan speed', 'design.motor_frame': 'Motor frame', 'design.service_factor': 'Service factor',
+    'design.fan_sheave_size': 'Fan sheave, as stamped', 'design.fan_sheave_pitch': 'Fan sheave pitch diameter',
+    'design.motor_sheave_size': 'Motor sheave, as stamped', 'design.motor_sheave_pitch': 'Motor sheave pitch diameter',
+    'design.belts': 'Belts', 'design.fan_bushing': 'Fan bushing', 'design.motor_bushing': 'Motor bushing', 'design.filters': 'Filters',
+  },
+  outlet: { kind: 'Kind of outlet', room: 'Room', size: 'Size', design_flow: 'Design airflow', method: 'Method', factor: 'Hood factor', ak: 'Ak (effective area)' },
+  traverse: {
+    shape: 'Duct shape', method: 'Method', width: 'Duct width', height: 'Duct height', diameter: 'Duct diameter',
+    points_w: 'Points per line', points_h: 'Lines', points_per_diameter: 'Points per diameter', diameters: 'Diameters',
+  },
+  capacity_test: { mode: 'Cooling or heating', flow_source: 'Airflow from', traverse_id: 'Traverse', flow_basis: 'Airflow measured at' },
+  water_test: {
+    mode: 'Cooling or heating', flow_source: 'Water flow from', valve_cv: 'Valve flow coefficient', valve_accuracy_pct: "Valve's stated flow accuracy",
+    fluid: 'Fluid', concentration: 'Glycol concentration', design_flow: 'Design water flow', capacity_test_id: 'Capacity test',
+  },
+};
+
+// labelOf('system', 'design.airflow') → "Design airflow". A field with no
+// words falls back to its last part in words, never a dotted name.
+export function labelOf(kind, field) {
+  const f = field || '';
+  const w = (LABELS[kind] || {})[f] || LABELS.any[f] || f.split('.').pop().replace(/_/g, ' ');
+  return w.charAt(0).toUpperCase() + w.slice(1);
+}
+
+// errorText(kind, e): the server's message after its field's label.
+export function errorText(kind, e) {
+  const m = (e && e.message) || String(e);
+  if (!e || !e.field) return m;
+  return `${labelOf(kind, e.field)}${/^(is|must|applies|contains|cannot|needs|names|refers|has)\b/.test(m) ? ' ' : ': '}${m}`;
+}
