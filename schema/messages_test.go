@@ -43,7 +43,7 @@ func TestMessagesInWords(t *testing.T) {
 			(&System{JobID: job, Tag: "AHU-1", Kind: "air_handler", Design: SystemDesign{Airflow: 4e7}}).Validate(measure.IP)},
 		{"Tolerance", "tolerances.outlet_low_pct", "0 to 100 %",
 			(&Job{Name: "J", Units: "ip", Tolerances: Tolerances{OutletLowPct: 120}}).Validate()},
-		{"Units", "units", "IP or SI", (&Job{Name: "J"}).Validate()},
+		{"Units", "units", "ip (inch-pound) or si", (&Job{Name: "J"}).Validate()},
 		{"Barometric", "barometric", "psia", (&Job{Name: "J", Units: "ip", Barometric: f(200)}).Validate()},
 		{"PerfTable", "design.perf_table_csv", "", (&System{JobID: job, Tag: "RTU-1", Kind: "rooftop_unit",
 			Design: SystemDesign{PerfTableCSV: "enter_wb_F,total_btuh\n67,100\n"}}).Validate(measure.IP)},

@@ -95,7 +95,7 @@ func (j *Job) UnitSystem() (measure.UnitSystem, error) {
 	case "si":
 		return measure.SI, nil
 	case "":
-		return 0, Errorf(Invalid, "units", "is required: IP or SI")
+		return 0, Errorf(Invalid, "units", "is required: ip (inch-pound) or si (metric)")
 	}
 	return 0, Errorf(Invalid, "units", "%q is not accepted; accepted values are ip, si", j.Units)
 }
