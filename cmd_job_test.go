@@ -100,7 +100,7 @@ func TestJobNewErrors(t *testing.T) {
 		want []string // in stderr
 	}{
 		{[]string{"--units", "ip"}, []string{"--name is required"}},
-		{[]string{"--name", "X"}, []string{"--units is required", "ip or si"}},
+		{[]string{"--name", "X"}, []string{"--units is required", "ip (inch-pound) or si"}},
 		{[]string{"--name", "X", "--units", "metric"}, []string{"--units", "ip, si"}},
 		{[]string{"--name", "X", "--units", "ip", "--elevation", "30000"}, []string{"--elevation", "30,000 ft", "25,000 ft"}},
 		{[]string{"--name", "X", "--units", "si", "--elevation", "9000"}, []string{"--elevation", "9,000 m", "7,500 m"}},
