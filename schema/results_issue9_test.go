@@ -79,6 +79,9 @@ func TestResultsTraverseConflict(t *testing.T) {
 			cf.Readings[1].Technician != "second tech" || cf.Readings[1].DeviceID != dup.DeviceID {
 			t.Fatalf("conflict = %+v", cf)
 		}
+		if !tv.Points[6].Conflict || tv.Points[6].Value != nil || tv.Points[5].Conflict {
+			t.Errorf("point 7 = %+v, want marked as a conflict with no value", tv.Points[6])
+		}
 		resClose(t, "first value", *cf.Readings[0].Value, 0.25, 1e-12)
 		resClose(t, "second value", *cf.Readings[1].Value, 0.31, 1e-12)
 		f := resFinding(r, FindingTraverseConflict, tr.ID)
@@ -331,4 +334,20 @@ func TestResNum(t *testing.T) {
 		}
 	}
 	_ = time.Second
+}
+
+func TestResultsFanFindingsSI(t *testing.T) {
+	b := newResBuilder("si")
+	sys := b.system("AHU-2", SystemDesign{Airflow: 6000, FanRPM: 1200, ExternalStatic: 250})
+	b.read(SubjectSystem, sys.ID, "fan_rpm", 0, 1320, UnitRPM, StageFinal, "")
+	b.read(SubjectSystem, sys.ID, "static_external", 0, 310, "Pa", StageFinal, "")
+	r := b.compute(t)
+	// 1320/1200 = 110 %: on the 10 % line, not beyond it; 310/250 = 124 %.
+	if f := resFinding(r, FindingFanSpeedOffDesign, sys.ID); f != nil {
+		t.Errorf("fan speed at exactly +10 %% is not a finding: %q", f.Text)
+	}
+	f := resFinding(r, FindingStaticOffDesign, sys.ID)
+	if f == nil || !strings.Contains(f.Text, "external static pressure 310 Pa is 124 % of design 250 Pa") {
+		t.Errorf("finding = %+v", f)
+	}
 }
