@@ -1,6 +1,7 @@
 package schema
 
 import (
+	"context"
 	"math"
 	"strings"
 	"testing"
@@ -333,7 +334,6 @@ func TestResNum(t *testing.T) {
 			t.Errorf("resNum(%v, %d, %v) = %q, want %q", c.v, c.d, c.si, got, c.want)
 		}
 	}
-	_ = time.Second
 }
 
 func TestResultsFanFindingsSI(t *testing.T) {
@@ -349,5 +349,73 @@ func TestResultsFanFindingsSI(t *testing.T) {
 	f := resFinding(r, FindingStaticOffDesign, sys.ID)
 	if f == nil || !strings.Contains(f.Text, "external static pressure 310 Pa is 124 % of design 250 Pa") {
 		t.Errorf("finding = %+v", f)
+	}
+}
+
+// TestResultsIssue9FromStore takes a traverse conflict and a valve's stated
+// accuracy through a real SQLite store.
+func TestResultsIssue9FromStore(t *testing.T) {
+	ctx := context.Background()
+	db := MustOpenDB(t)
+	a := Actor{Name: "Lead", Role: RoleLead}
+	job := &Job{Name: "Store job", Units: "ip", Tolerances: DefaultTolerances()}
+	if err := db.CreateJob(ctx, a, job); err != nil {
+		t.Fatal(err)
+	}
+	sys := &System{JobID: job.ID, Tag: "AHU-1", Kind: "air_handler", Design: SystemDesign{Airflow: 800}}
+	if err := Create(ctx, db, a, sys); err != nil {
+		t.Fatal(err)
+	}
+	tr := &Traverse{JobID: job.ID, SystemID: sys.ID, Tag: "T-1", Shape: "round", Method: "equal-area", Diameter: 12,
+		PointsPerDiameter: 4, Diameters: 2}
+	if err := Create(ctx, db, a, tr); err != nil {
+		t.Fatal(err)
+	}
+	wt := &WaterTest{JobID: job.ID, SystemID: sys.ID, Tag: "CHW-1", Mode: "cooling", FlowSource: "valve", ValveCv: 10,
+		ValveAccuracyPct: 8, Fluid: "water", DesignFlow: 20}
+	if err := Create(ctx, db, a, wt); err != nil {
+		t.Fatal(err)
+	}
+	var rs []Reading
+	add := func(kind, subj, qty string, point int, v float64, unit, device string) {
+		val := v
+		rs = append(rs, Reading{ID: NewID(), JobID: job.ID, SubjectKind: kind, SubjectID: subj, Quantity: qty, Point: point,
+			Value: &val, Unit: unit, Stage: StageFinal, Technician: "tech " + device, DeviceID: device,
+			TakenAt: testNow.Add(-time.Duration(len(rs)+1) * time.Minute)})
+	}
+	for p := 1; p <= 8; p++ {
+		add(SubjectTraverse, tr.ID, "vp", p, 0.1, UnitInWG, "")
+	}
+	add(SubjectTraverse, tr.ID, "vp", 5, 0.12, UnitInWG, "") // the same point from a script: no supersedes
+	add(SubjectWaterTest, wt.ID, "dp", 0, 4, UnitPsi, "")
+	res, err := db.AddReadings(ctx, a, job.ID, rs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, rr := range res {
+		if rr.Status != ReadingStored {
+			t.Fatalf("reading %s: %+v", rr.ID, rr)
+		}
+	}
+	snap, err := db.Snapshot(ctx, job.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := ComputeResults(snap, resToday)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if tv := r.Traverses[0]; tv.Status != ResultConflict || tv.Flow != nil || len(tv.Conflicts) != 1 || tv.Conflicts[0].Point != 5 {
+		t.Errorf("traverse = %+v, want a conflict at point 5", tv)
+	}
+	w := r.WaterTests[0]
+	if w.ValveAccuracyPct == nil || *w.ValveAccuracyPct != 8 || w.ValveAccuracySource != "stated" || w.Tolerance == nil {
+		t.Fatalf("water test = %+v", w)
+	}
+	// No gauge instrument: only the valve's 8 % remains, and the gauge's
+	// part is unknown.
+	resClose(t, "flow ±", w.Tolerance.Uncertainty, 0.08**w.Flow, 1e-9)
+	if !w.Tolerance.UncertaintyUnknown {
+		t.Error("the ΔP reading names no instrument: uncertainty_unknown should be set")
 	}
 }
