@@ -1459,10 +1459,9 @@ func (c *resultsCalc) water(wt *WaterTest) WaterTestResult {
 		}
 	}
 
+	c.waterMode(wt, &res)
 	if haveTemps {
 		c.waterProcess(wt, rs, enter, leave, &res)
-	} else {
-		res.Mode = wt.Mode
 	}
 	var flow measure.VolumeFlow
 	var acc measure.Accuracy

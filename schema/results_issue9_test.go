@@ -168,6 +168,13 @@ func TestResultsWaterMode(t *testing.T) {
 			t.Errorf("water test = %+v, want no heat transfer and a finding", w)
 		}
 	})
+	t.Run("OKModeNotStatedNoTemps", func(t *testing.T) {
+		b, wt, _ := build("")
+		r := b.compute(t)
+		if resFinding(r, FindingWaterModeNotGiven, wt.ID) == nil || r.WaterTests[0].Process != "" {
+			t.Errorf("water test = %+v, want the not-stated finding before any reading", r.WaterTests[0])
+		}
+	})
 	t.Run("OKModeNotStated", func(t *testing.T) {
 		b, wt, th := build("")
 		temps(b, wt, th, 45, 55)
