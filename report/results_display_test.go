@@ -68,6 +68,7 @@ func TestRenderIssue9Results(t *testing.T) {
 		// The conflict, its table and its finding.
 		"Conflicting readings: for the lead to resolve",
 		"line 1 point 4 (final) has 2 readings that each count",
+		"line 1 point 4 17.1 0.9 conflict",
 		// The heating coil's warming water, and the hot-water caution.
 		"HW coil AHU-9 (heating; the water shows cooling)",
 		"the water warms from 120.0 °F to 131.0 °F, which is cooling, but the test is stated as heating",

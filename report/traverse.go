@@ -241,6 +241,9 @@ func (d *doc) traversePoints(tr *schema.TraverseResult) {
 			c = append(c, ptr(p.PortOffset, func(v float64) string { return u.length(v, false) }))
 		}
 		read := "not read"
+		if p.Conflict {
+			read = "conflict"
+		}
 		if p.Value != nil {
 			switch {
 			case p.Quantity == "vp" && mixed:

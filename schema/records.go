@@ -185,21 +185,22 @@ type CapacityTest struct {
 
 // WaterTest is a coil or circuit's water-side test.
 type WaterTest struct {
-	ID         string  `json:"id"`
-	JobID      string  `json:"job_id"`
-	SystemID   string  `json:"system_id"`
-	Tag        string  `json:"tag"`         // coil or circuit tag, e.g. "CHW coil AHU-1"
-	Mode       string  `json:"mode"`        // "cooling" or "heating": what the coil or circuit does
-	FlowSource string  `json:"flow_source"` // "valve" (Cv and ΔP) or "meter"
-	ValveCv    float64 `json:"valve_cv"`
+	ID            string  `json:"id"`
+	JobID         string  `json:"job_id"`
+	SystemID      string  `json:"system_id"`
+	Tag           string  `json:"tag"`         // coil or circuit tag, e.g. "CHW coil AHU-1"
+	Mode          string  `json:"mode"`        // "cooling" or "heating": what the coil or circuit does
+	FlowSource    string  `json:"flow_source"` // "valve" (Cv and ΔP) or "meter"
+	ValveCv       float64 `json:"valve_cv"`
+	Fluid         string  `json:"fluid"`         // "water", "pg" or "eg"
+	Concentration float64 `json:"concentration"` // % by volume, glycols
+	DesignFlow    float64 `json:"design_flow"`   // gpm or L/s
+	CapacityTest  string  `json:"capacity_test_id"`
+	Remarks       string  `json:"remarks"`
+
 	// ValveAccuracyPct is the valve maker's stated flow accuracy, ± % of flow
 	// (0 to 50; 0 takes DefaultValveAccuracyPct, common practice).
 	ValveAccuracyPct float64 `json:"valve_accuracy_pct,omitempty"`
-	Fluid            string  `json:"fluid"`         // "water", "pg" or "eg"
-	Concentration    float64 `json:"concentration"` // % by volume, glycols
-	DesignFlow       float64 `json:"design_flow"`   // gpm or L/s
-	CapacityTest     string  `json:"capacity_test_id"`
-	Remarks          string  `json:"remarks"`
 	recordMeta
 }
 

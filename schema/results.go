@@ -336,6 +336,7 @@ type TraversePointValue struct {
 	Depth      float64  `json:"depth"`
 	PortOffset *float64 `json:"port_offset,omitempty"`
 	ReadingID  string   `json:"reading_id,omitempty"`
+	Conflict   bool     `json:"conflict,omitempty"` // two current readings of this point and stage: see TraverseResult.Conflicts
 	Quantity   string   `json:"quantity,omitempty"` // "vp" or "velocity"; "" when not read
 	Value      *float64 `json:"value,omitempty"`
 	Velocity   *float64 `json:"velocity,omitempty"`
@@ -724,7 +725,7 @@ func (c *resultsCalc) checkOverdue(k resKey, rd *Reading) {
 	c.flags[k] = append(fl, Flag{Kind: FlagInstrumentOverdue, InstrumentID: rd.InstrumentID,
 		ReadingIDs: []string{rd.ID},
 		Text: fmt.Sprintf("A reading (%s, %s) was taken with %s on %s, after its calibration was due on %s.",
-			rd.Quantity, rd.Stage, resInstName(info.in), taken.Format(time.DateOnly), info.in.CalibrationDue)})
+			strings.ReplaceAll(rd.Quantity, "_", " "), strings.ReplaceAll(rd.Stage, "_", " "), resInstName(info.in), taken.Format(time.DateOnly), info.in.CalibrationDue)})
 }
 
 func resInstName(in *Instrument) string {
@@ -1044,7 +1045,7 @@ func (c *resultsCalc) airDensity(rs []*Reading) (resDensity, error) {
 	}
 	d := resDensity{rho: measure.DensityIn(c.u, st.Density), stdFactor: 1 / st.SpecVolume / c.stdAir(), source: source}
 	if source == "dry_air" {
-		d.note = "no air_rh or air_wb reading in the duct: density taken for dry air (slightly high in humid air)"
+		d.note = "no relative humidity or wet bulb read in the duct: density taken for dry air (slightly high in humid air)"
 	}
 	return d, nil
 }
@@ -1458,10 +1459,9 @@ func (c *resultsCalc) water(wt *WaterTest) WaterTestResult {
 		}
 	}
 
+	c.waterMode(wt, &res)
 	if haveTemps {
 		c.waterProcess(wt, rs, enter, leave, &res)
-	} else {
-		res.Mode = wt.Mode
 	}
 	var flow measure.VolumeFlow
 	var acc measure.Accuracy

@@ -1,6 +1,7 @@
 package schema
 
 import (
+	"context"
 	"math"
 	"strings"
 	"testing"
@@ -78,6 +79,9 @@ func TestResultsTraverseConflict(t *testing.T) {
 		if cf.Point != 7 || cf.Stage != StageFinal || len(cf.Readings) != 2 || cf.Readings[1].ReadingID != dup.ID ||
 			cf.Readings[1].Technician != "second tech" || cf.Readings[1].DeviceID != dup.DeviceID {
 			t.Fatalf("conflict = %+v", cf)
+		}
+		if !tv.Points[6].Conflict || tv.Points[6].Value != nil || tv.Points[5].Conflict {
+			t.Errorf("point 7 = %+v, want marked as a conflict with no value", tv.Points[6])
 		}
 		resClose(t, "first value", *cf.Readings[0].Value, 0.25, 1e-12)
 		resClose(t, "second value", *cf.Readings[1].Value, 0.31, 1e-12)
@@ -162,6 +166,13 @@ func TestResultsWaterMode(t *testing.T) {
 		r := b.compute(t)
 		if w := r.WaterTests[0]; w.Process != WaterNoTransfer || resFinding(r, FindingWaterModeMismatch, wt.ID) == nil {
 			t.Errorf("water test = %+v, want no heat transfer and a finding", w)
+		}
+	})
+	t.Run("OKModeNotStatedNoTemps", func(t *testing.T) {
+		b, wt, _ := build("")
+		r := b.compute(t)
+		if resFinding(r, FindingWaterModeNotGiven, wt.ID) == nil || r.WaterTests[0].Process != "" {
+			t.Errorf("water test = %+v, want the not-stated finding before any reading", r.WaterTests[0])
 		}
 	})
 	t.Run("OKModeNotStated", func(t *testing.T) {
@@ -330,5 +341,88 @@ func TestResNum(t *testing.T) {
 			t.Errorf("resNum(%v, %d, %v) = %q, want %q", c.v, c.d, c.si, got, c.want)
 		}
 	}
-	_ = time.Second
+}
+
+func TestResultsFanFindingsSI(t *testing.T) {
+	b := newResBuilder("si")
+	sys := b.system("AHU-2", SystemDesign{Airflow: 6000, FanRPM: 1200, ExternalStatic: 250})
+	b.read(SubjectSystem, sys.ID, "fan_rpm", 0, 1320, UnitRPM, StageFinal, "")
+	b.read(SubjectSystem, sys.ID, "static_external", 0, 310, "Pa", StageFinal, "")
+	r := b.compute(t)
+	// 1320/1200 = 110 %: on the 10 % line, not beyond it; 310/250 = 124 %.
+	if f := resFinding(r, FindingFanSpeedOffDesign, sys.ID); f != nil {
+		t.Errorf("fan speed at exactly +10 %% is not a finding: %q", f.Text)
+	}
+	f := resFinding(r, FindingStaticOffDesign, sys.ID)
+	if f == nil || !strings.Contains(f.Text, "external static pressure 310 Pa is 124 % of design 250 Pa") {
+		t.Errorf("finding = %+v", f)
+	}
+}
+
+// TestResultsIssue9FromStore takes a traverse conflict and a valve's stated
+// accuracy through a real SQLite store.
+func TestResultsIssue9FromStore(t *testing.T) {
+	ctx := context.Background()
+	db := MustOpenDB(t)
+	a := Actor{Name: "Lead", Role: RoleLead}
+	job := &Job{Name: "Store job", Units: "ip", Tolerances: DefaultTolerances()}
+	if err := db.CreateJob(ctx, a, job); err != nil {
+		t.Fatal(err)
+	}
+	sys := &System{JobID: job.ID, Tag: "AHU-1", Kind: "air_handler", Design: SystemDesign{Airflow: 800}}
+	if err := Create(ctx, db, a, sys); err != nil {
+		t.Fatal(err)
+	}
+	tr := &Traverse{JobID: job.ID, SystemID: sys.ID, Tag: "T-1", Shape: "round", Method: "equal-area", Diameter: 12,
+		PointsPerDiameter: 4, Diameters: 2}
+	if err := Create(ctx, db, a, tr); err != nil {
+		t.Fatal(err)
+	}
+	wt := &WaterTest{JobID: job.ID, SystemID: sys.ID, Tag: "CHW-1", Mode: "cooling", FlowSource: "valve", ValveCv: 10,
+		ValveAccuracyPct: 8, Fluid: "water", DesignFlow: 20}
+	if err := Create(ctx, db, a, wt); err != nil {
+		t.Fatal(err)
+	}
+	var rs []Reading
+	add := func(kind, subj, qty string, point int, v float64, unit, device string) {
+		val := v
+		rs = append(rs, Reading{ID: NewID(), JobID: job.ID, SubjectKind: kind, SubjectID: subj, Quantity: qty, Point: point,
+			Value: &val, Unit: unit, Stage: StageFinal, Technician: "tech " + device, DeviceID: device,
+			TakenAt: testNow.Add(-time.Duration(len(rs)+1) * time.Minute)})
+	}
+	for p := 1; p <= 8; p++ {
+		add(SubjectTraverse, tr.ID, "vp", p, 0.1, UnitInWG, "")
+	}
+	add(SubjectTraverse, tr.ID, "vp", 5, 0.12, UnitInWG, "") // the same point from a script: no supersedes
+	add(SubjectWaterTest, wt.ID, "dp", 0, 4, UnitPsi, "")
+	res, err := db.AddReadings(ctx, a, job.ID, rs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, rr := range res {
+		if rr.Status != ReadingStored {
+			t.Fatalf("reading %s: %+v", rr.ID, rr)
+		}
+	}
+	snap, err := db.Snapshot(ctx, job.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := ComputeResults(snap, resToday)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if tv := r.Traverses[0]; tv.Status != ResultConflict || tv.Flow != nil || len(tv.Conflicts) != 1 || tv.Conflicts[0].Point != 5 {
+		t.Errorf("traverse = %+v, want a conflict at point 5", tv)
+	}
+	w := r.WaterTests[0]
+	if w.ValveAccuracyPct == nil || *w.ValveAccuracyPct != 8 || w.ValveAccuracySource != "stated" || w.Tolerance == nil {
+		t.Fatalf("water test = %+v", w)
+	}
+	// No gauge instrument: only the valve's 8 % remains, and the gauge's
+	// part is unknown.
+	resClose(t, "flow ±", w.Tolerance.Uncertainty, 0.08**w.Flow, 1e-9)
+	if !w.Tolerance.UncertaintyUnknown {
+		t.Error("the ΔP reading names no instrument: uncertainty_unknown should be set")
+	}
 }

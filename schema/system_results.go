@@ -119,6 +119,10 @@ func (c *resultsCalc) outletsVsTraverse(sys *System, res *SystemResult) {
 	res.OutletsVsTraverse = a
 }
 
+// offDesign says whether pct (of design) is beyond FanDesignDeviationPct,
+// with a slack so a figure exactly on the line stays on it.
+func offDesign(pct float64) bool { return math.Abs(pct-100) > FanDesignDeviationPct+1e-9 }
+
 // systemFindings adds the findings of systemChecks.
 func (c *resultsCalc) systemFindings(s *SystemResult, add func(kind string, subj SubjectRef, text string)) {
 	subj := SubjectRef{SubjectSystem, s.ID, s.Tag}
@@ -129,11 +133,11 @@ func (c *resultsCalc) systemFindings(s *SystemResult, add func(kind string, subj
 	if sys == nil {
 		return
 	}
-	if p := s.FanRPMPercentOfDesign; p != nil && math.Abs(*p-100) > FanDesignDeviationPct {
+	if p := s.FanRPMPercentOfDesign; p != nil && offDesign(*p) {
 		add(FindingFanSpeedOffDesign, subj, fmt.Sprintf("%s: fan speed %s is %s %% of design %s, more than %s %% from it (common practice).",
 			s.Tag, c.numU(*s.FanRPM, 0, "rpm"), c.num(*p, 0), c.numU(sys.Design.FanRPM, 0, "rpm"), c.num(FanDesignDeviationPct, 0)))
 	}
-	if p := s.ExternalStaticPercentOfDesign; p != nil && math.Abs(*p-100) > FanDesignDeviationPct {
+	if p := s.ExternalStaticPercentOfDesign; p != nil && offDesign(*p) {
 		d := 2
 		if c.u == measure.SI {
 			d = 0

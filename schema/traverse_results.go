@@ -134,6 +134,7 @@ func (c *resultsCalc) traverseStage(layout measure.TraverseLayout, pts []measure
 		st.read++
 		if len(rs) > 1 {
 			st.conflicts = append(st.conflicts, c.conflictOf(stage, p, i+1, rs))
+			st.points[i].Conflict = true
 			continue
 		}
 		r := rs[0]

@@ -31,10 +31,6 @@ const (
 // the test's stated mode. ΔT within the two thermometers' stated accuracies
 // is no heat transfer.
 func (c *resultsCalc) waterProcess(wt *WaterTest, rs []*Reading, enter, leave measure.Temperature, res *WaterTestResult) {
-	res.Mode = wt.Mode
-	if wt.Mode == "" {
-		res.ModeNote = WaterModeNotGiven + ": the record was made before the mode was asked for; edit the water test to state it"
-	}
 	band := 0.0 // K
 	for _, q := range []string{"enter_temp", "leave_temp"} {
 		if r := resCurrent(rs, q, 0); r != nil {
@@ -62,6 +58,14 @@ func (c *resultsCalc) waterProcess(wt *WaterTest, rs []*Reading, enter, leave me
 				"check the coil's valve and controls, and which thermometer is on which pipe",
 				what, c.numU(enter.In(c.u), 1, c.units.Temperature), c.numU(leave.In(c.u), 1, c.units.Temperature), res.Process, wt.Mode)
 		}
+	}
+}
+
+// waterMode sets the stated mode, with a note when the record has none.
+func (c *resultsCalc) waterMode(wt *WaterTest, res *WaterTestResult) {
+	res.Mode = wt.Mode
+	if wt.Mode == "" {
+		res.ModeNote = WaterModeNotGiven + ": the record was made before the mode was asked for; edit the water test to state it"
 	}
 }
 
