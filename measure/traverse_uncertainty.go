@@ -4,11 +4,12 @@ import "math"
 
 // TraverseMethodUncertaintyPct is the ± uncertainty, in percent of flow, that a
 // pitot or anemometer traverse carries from the method itself (a finite number
-// of points in a real, uneven profile), before any instrument error. From
-// memory, not confirmed against the texts: ISO 3966 puts a velocity-area
-// measurement that meets its straight-duct conditions near ±2 %, and field
-// planes, which seldom meet them, are commonly taken as about ±5 % (the figure
-// usually quoted with ASHRAE Standard 111 for field traverses). Used as ±5 %.
+// of points in a real, uneven profile), before any instrument error. The figure
+// is the pitot-velocity accuracy a trade certifying body requires, ±5 % (its
+// published instrument requirements, 2024, as a secondary copy in the team's
+// reference notes), taken as the field traverse's own uncertainty. ISO 3966
+// claims about ±2 % only under its own straight-duct conditions (from memory),
+// which field planes seldom meet.
 const TraverseMethodUncertaintyPct = 5.0
 
 // PitotVelocityUncertainty returns the ± velocity that a ± uVP uncertainty on a
