@@ -90,7 +90,10 @@ func TestBrowserSetupJob(t *testing.T) {
 	p.wait("the default tolerances shown", q(fsel("tolerances.fan_low_pct"))+".value === '5'")
 	p.fill("name", "Harbour Clinic", "project_number", "HC-2291", "site_address", "4 Quay Lane", "tab_firm", "Level Air Balancing",
 		"_air=", "barometric")
-	p.wait("the pressure's unit follows the job's units", q("[data-field=barometric] label")+".textContent.includes('psia')")
+	p.wait("the pressure in psia for an IP job", q("[data-field=barometric] label")+".textContent.includes('psia')")
+	p.fill("units=", "si")
+	p.wait("the pressure in kPa for an SI job", q("[data-field=barometric] label")+".textContent.includes('kPa')")
+	p.fill("units=", "ip")
 	p.fill("barometric", "200")
 	p.click("[data-test=edit-save]")
 	if msg := p.fieldError("barometric"); !strings.HasPrefix(msg, "Barometric pressure") || !strings.Contains(msg, "psia") || internalName.MatchString(msg) {

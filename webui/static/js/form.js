@@ -58,7 +58,7 @@ export function form(kind, groups, rec) {
       const r = rows.find(([f, , box]) => f.k === e.field && !box.hidden && !box.parentNode.closest('[hidden]'));
       if (!r) return false;
       r[1].setAttribute('aria-invalid', 'true');
-      r[2].append(h('p', { class: 'msg msg-error', role: 'alert', 'data-test': 'field-error' }, errorText(kind, e)));
+      r[2].append(h('p', { class: 'msg msg-error', role: 'alert', 'data-test': 'field-error' }, errorText(kind, e, fn(r[0].l, vals()))));
       r[2].scrollIntoView({ block: 'center' });
       r[1].focus({ preventScroll: true });
       return true;

@@ -46,9 +46,10 @@ export function labelOf(kind, field) {
   return w.charAt(0).toUpperCase() + w.slice(1);
 }
 
-// errorText(kind, e): the server's message after its field's label.
-export function errorText(kind, e) {
+// errorText(kind, e, label): the server's message after its field's label
+// (label: the one the form shows, when it differs).
+export function errorText(kind, e, label) {
   const m = (e && e.message) || String(e);
   if (!e || !e.field) return m;
-  return `${labelOf(kind, e.field)}${/^(is|must|applies|contains|cannot|needs|names|refers|has)\b/.test(m) ? ' ' : ': '}${m}`;
+  return `${label || labelOf(kind, e.field)}${/^(is|must|applies|contains|cannot|needs|names|refers|has)\b/.test(m) ? ' ' : ': '}${m}`;
 }
