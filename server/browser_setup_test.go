@@ -212,6 +212,17 @@ func TestBrowserSetupJob(t *testing.T) {
 		t.Errorf("%d outlets after a confirmed delete; want 0", n)
 	}
 
+	// A system with tests is not deleted: the refusal says why, in words.
+	p.click(tagSel("edit-system", "AHU-1"))
+	p.click("[data-test=edit-delete]")
+	p.wait("the delete asks to be confirmed", q("[data-test=edit-delete]")+".textContent.includes('again')")
+	p.click("[data-test=edit-delete]")
+	p.waitSel("[data-test=edit-error]")
+	if msg := p.text("[data-test=edit-error]"); !strings.HasPrefix(msg, "System AHU-1 still has") || internalName.MatchString(msg) {
+		t.Errorf("deleting a system with tests: %q; want it refused in words", msg)
+	}
+	p.goHash("#/job/" + job.ID + "/setup")
+
 	// The units are locked now that the job holds design data.
 	p.click("[data-test=edit-job]")
 	p.wait("the units locked", q(fsel("units"))+".disabled && "+q("[data-field=units]")+".textContent.includes('Locked')")

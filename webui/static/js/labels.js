@@ -3,7 +3,7 @@
 // The forms use the same words. A Go test checks every field has one.
 
 export const LABELS = {
-  any: { id: 'Record', job_id: 'Job', system_id: 'System', tag: 'Tag', name: 'Name', location: 'Location', remarks: 'Remarks', units: 'Units', kind: 'Kind' },
+  any: { id: '', job_id: 'Job', system_id: 'System', tag: 'Tag', name: 'Name', location: 'Location', remarks: 'Remarks', units: 'Units', kind: 'Kind' },
   job: {
     name: 'Job name', site_address: 'Site address', client: 'Client', engineer: 'Engineer', contractor: 'Contractor',
     tab_firm: 'Balancing firm', project_number: 'Project number', elevation: 'Site elevation', barometric: 'Barometric pressure',
@@ -50,6 +50,7 @@ export function labelOf(kind, field) {
 // (label: the one the form shows, when it differs).
 export function errorText(kind, e, label) {
   const m = (e && e.message) || String(e);
-  if (!e || !e.field) return m;
+  // A message about the record itself (field id) names it already.
+  if (!e || !e.field || (e.field === 'id' && !label)) return m.charAt(0).toUpperCase() + m.slice(1);
   return `${label || labelOf(kind, e.field)}${/^(is|must|applies|contains|cannot|needs|names|refers|has)\b/.test(m) ? ' ' : ': '}${m}`;
 }
