@@ -32,7 +32,8 @@ export function form(kind, groups, rec) {
     rows.push([f, c, box, lab]);
     return box;
   };
-  const el = h('div', {}, groups.map((g) => h('fieldset', { class: 'scr-group' }, h('legend', {}, g.title),
+  // A group of one field needs no title over its label.
+  const el = h('div', {}, groups.map((g) => h('fieldset', { class: 'scr-group' }, g.fields.length > 1 ? h('legend', {}, g.title) : null,
     g.hint ? h('p', { class: 'hint' }, g.hint) : null, h('div', { class: 'form-grid' }, g.fields.map(row)))));
   // Show the fields the choices call for, with units that follow them.
   const refresh = () => {
