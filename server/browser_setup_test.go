@@ -90,7 +90,10 @@ func TestBrowserSetupJob(t *testing.T) {
 	p.wait("the default tolerances shown", q(fsel("tolerances.fan_low_pct"))+".value === '5'")
 	p.fill("name", "Harbour Clinic", "project_number", "HC-2291", "site_address", "4 Quay Lane", "tab_firm", "Level Air Balancing",
 		"_air=", "barometric")
-	p.wait("the pressure's unit follows the job's units", q("[data-field=barometric] label")+".textContent.includes('psia')")
+	p.wait("the pressure in psia for an IP job", q("[data-field=barometric] label")+".textContent.includes('psia')")
+	p.fill("units=", "si")
+	p.wait("the pressure in kPa for an SI job", q("[data-field=barometric] label")+".textContent.includes('kPa')")
+	p.fill("units=", "ip")
 	p.fill("barometric", "200")
 	p.click("[data-test=edit-save]")
 	if msg := p.fieldError("barometric"); !strings.HasPrefix(msg, "Barometric pressure") || !strings.Contains(msg, "psia") || internalName.MatchString(msg) {
@@ -208,6 +211,17 @@ func TestBrowserSetupJob(t *testing.T) {
 	if n := len(mustSnapshot(t, app, job.ID).Outlets); n != 0 {
 		t.Errorf("%d outlets after a confirmed delete; want 0", n)
 	}
+
+	// A system with tests is not deleted: the refusal says why, in words.
+	p.click(tagSel("edit-system", "AHU-1"))
+	p.click("[data-test=edit-delete]")
+	p.wait("the delete asks to be confirmed", q("[data-test=edit-delete]")+".textContent.includes('again')")
+	p.click("[data-test=edit-delete]")
+	p.waitSel("[data-test=edit-error]")
+	if msg := p.text("[data-test=edit-error]"); !strings.HasPrefix(msg, "System AHU-1 still has") || internalName.MatchString(msg) {
+		t.Errorf("deleting a system with tests: %q; want it refused in words", msg)
+	}
+	p.goHash("#/job/" + job.ID + "/setup")
 
 	// The units are locked now that the job holds design data.
 	p.click("[data-test=edit-job]")

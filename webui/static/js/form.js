@@ -32,7 +32,8 @@ export function form(kind, groups, rec) {
     rows.push([f, c, box, lab]);
     return box;
   };
-  const el = h('div', {}, groups.map((g) => h('fieldset', { class: 'scr-group' }, h('legend', {}, g.title),
+  // A group of one field needs no title over its label.
+  const el = h('div', {}, groups.map((g) => h('fieldset', { class: 'scr-group' }, g.fields.length > 1 ? h('legend', {}, g.title) : null,
     g.hint ? h('p', { class: 'hint' }, g.hint) : null, h('div', { class: 'form-grid' }, g.fields.map(row)))));
   // Show the fields the choices call for, with units that follow them.
   const refresh = () => {
@@ -58,7 +59,7 @@ export function form(kind, groups, rec) {
       const r = rows.find(([f, , box]) => f.k === e.field && !box.hidden && !box.parentNode.closest('[hidden]'));
       if (!r) return false;
       r[1].setAttribute('aria-invalid', 'true');
-      r[2].append(h('p', { class: 'msg msg-error', role: 'alert', 'data-test': 'field-error' }, errorText(kind, e)));
+      r[2].append(h('p', { class: 'msg msg-error', role: 'alert', 'data-test': 'field-error' }, errorText(kind, e, fn(r[0].l, vals()))));
       r[2].scrollIntoView({ block: 'center' });
       r[1].focus({ preventScroll: true });
       return true;

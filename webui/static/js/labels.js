@@ -3,7 +3,7 @@
 // The forms use the same words. A Go test checks every field has one.
 
 export const LABELS = {
-  any: { id: 'Record', job_id: 'Job', system_id: 'System', tag: 'Tag', name: 'Name', location: 'Location', remarks: 'Remarks', units: 'Units', kind: 'Kind' },
+  any: { id: '', job_id: 'Job', system_id: 'System', tag: 'Tag', name: 'Name', location: 'Location', remarks: 'Remarks', units: 'Units', kind: 'Kind' },
   job: {
     name: 'Job name', site_address: 'Site address', client: 'Client', engineer: 'Engineer', contractor: 'Contractor',
     tab_firm: 'Balancing firm', project_number: 'Project number', elevation: 'Site elevation', barometric: 'Barometric pressure',
@@ -46,9 +46,11 @@ export function labelOf(kind, field) {
   return w.charAt(0).toUpperCase() + w.slice(1);
 }
 
-// errorText(kind, e): the server's message after its field's label.
-export function errorText(kind, e) {
+// errorText(kind, e, label): the server's message after its field's label
+// (label: the one the form shows, when it differs).
+export function errorText(kind, e, label) {
   const m = (e && e.message) || String(e);
-  if (!e || !e.field) return m;
-  return `${labelOf(kind, e.field)}${/^(is|must|applies|contains|cannot|needs|names|refers|has)\b/.test(m) ? ' ' : ': '}${m}`;
+  // A message about the record itself (field id) names it already.
+  if (!e || !e.field || (e.field === 'id' && !label)) return m.charAt(0).toUpperCase() + m.slice(1);
+  return `${label || labelOf(kind, e.field)}${/^(is|must|applies|contains|cannot|needs|names|refers|has)\b/.test(m) ? ' ' : ': '}${m}`;
 }

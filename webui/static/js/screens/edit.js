@@ -126,7 +126,9 @@ function specs(kind, ctx, rec) {
   }) }));
 }
 
-let kept = null; // {key, e}: the last error, shown again after a re-render
+let kept = null; // {key, e}: the last error, shown again after a re-render of the same form
+let armed = {}; // {id, until}: a first tap on Delete
+window.addEventListener('hashchange', () => { kept = null; armed = {}; });
 
 export async function render(ctx) {
   const kind = ctx.params.kind || 'job';
@@ -163,14 +165,17 @@ export async function render(ctx) {
       ctx.go(back);
     } catch (e) { fail(e); } finally { save.disabled = false; }
   });
-  // A second tap confirms: a deleted record leaves the job and the report.
-  const del = isNew || kind === 'job' ? null : button('Delete', { class: 'btn danger', 'data-test': 'edit-delete' }, async () => {
-    if (!del.dataset.armed) {
-      del.dataset.armed = '1';
-      del.textContent = `Tap again to delete ${rec.tag}`;
-      setTimeout(() => { delete del.dataset.armed; del.textContent = 'Delete'; }, 5000);
+  // A second tap within 5 s confirms: a deleted record leaves the job and the
+  // report. The first tap is kept here, so a sync update's redraw keeps it.
+  const again = `Tap again to delete ${rec.tag}`;
+  const del = isNew || kind === 'job' ? null : button(armed.id === rec.id && armed.until > Date.now() ? again : 'Delete', { class: 'btn danger', 'data-test': 'edit-delete' }, async () => {
+    if (!(armed.id === rec.id && armed.until > Date.now())) {
+      armed = { id: rec.id, until: Date.now() + 5000 };
+      del.textContent = again;
+      setTimeout(() => { if (del.isConnected) del.textContent = 'Delete'; }, 5000);
       return;
     }
+    armed = {};
     try { await ctx.api.del(`${base}/${enc(rec.id)}`); await ctx.sync.refresh(); ctx.go(back); } catch (e) { fail(e); }
   });
   const el = h('div', { 'data-test': 'edit-screen', 'data-kind': kind },
