@@ -90,12 +90,12 @@ export function render(ctx) {
   };
 
   const filterSel = select({ id: 'outlet-filter', 'data-test': 'outlet-filter', 'aria-label': 'Show' }, [
-    ['unread', `Not read yet (${counts.unread})`],
-    ['out', `Out of tolerance (${counts.out})`],
+    ['unread', `Not read (${counts.unread})`],
+    ['out', `Low or high (${counts.out})`],
     ['all', `All (${counts.all})`],
   ], st.filter);
   const search = h('input', {
-    id: 'outlet-search', type: 'search', 'data-test': 'outlet-search', placeholder: 'Search all systems: tag or room', 'aria-label': 'Search', autocomplete: 'off', value: st.search || null,
+    id: 'outlet-search', type: 'search', 'data-test': 'outlet-search', placeholder: 'Tag or room, all systems', 'aria-label': 'Search', autocomplete: 'off', value: st.search || null,
   });
   const list = h('ul', { class: 'list two', 'data-test': 'outlet-list' });
   const countEl = h('p', { class: 'sub', 'aria-live': 'polite' });
