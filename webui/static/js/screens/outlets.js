@@ -95,7 +95,7 @@ export function render(ctx) {
     ['all', `All (${counts.all})`],
   ], st.filter);
   const search = h('input', {
-    id: 'outlet-search', type: 'search', 'data-test': 'outlet-search', placeholder: 'Tag or room, all systems', 'aria-label': 'Search', autocomplete: 'off', value: st.search || null,
+    id: 'outlet-search', type: 'search', 'data-test': 'outlet-search', placeholder: 'Tag or room', 'aria-label': 'Search', autocomplete: 'off', value: st.search || null,
   });
   const list = h('ul', { class: 'list two', 'data-test': 'outlet-list' });
   const countEl = h('p', { class: 'sub', 'aria-live': 'polite' });
