@@ -36,7 +36,7 @@ export function render(ctx) {
   };
   const NEG = (q) => q.startsWith('static');
 
-  // step: a card with its fields, its own Save and the results beside them.
+  // step: fields, their own Save, results beside.
   const step = (n, title, test, top, build, out) => {
     const box = h('div', { class: 'step-form' });
     const draw = () => {
@@ -74,7 +74,7 @@ export function render(ctx) {
   put(root, header(`Fan and motor ${sys.tag}`, [kindWord(sys.kind), sys.name].filter(Boolean).join(' · ')),
     sys.kind === 'rooftop_unit' && caution('roof'), caution('rotating'),
     h('div', { class: 'card' }, h('div', { class: 'scr-picks' }, stageSelect(st, () => ctx.rerender())),
-      row('Airflow', res && res.airflow !== undefined ? num(res.airflow, 0, U.air_flow) + ({ traverse: ' (from the traverse)', outlets: ' (sum of the outlets)' }[res.airflow_source] || '') : 'not measured yet', 'fan-airflow'),
+      row('Airflow', res && res.airflow !== undefined ? num(res.airflow, 0, U.air_flow) + ({ traverse: ` (from the traverse${(byId(results(ctx).traverses, res.airflow_traverse_id) || {}).density_source === 'standard' ? ', standard air' : ''})`, outlets: ' (sum of the outlets)' }[res.airflow_source] || '') : 'not measured yet', 'fan-airflow'),
       row('Design airflow', num(d.airflow, 0, U.air_flow)),
       res && tolerance(res.airflow_tolerance, U.air_flow),
       res && res.errors && res.errors.length > 0 && h('div', { class: 'scr-status' }, badge('error')),

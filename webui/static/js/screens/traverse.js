@@ -130,7 +130,7 @@ export function render(ctx) {
     : `Rectangular duct ${asEntered(tr.width)} × ${asEntered(tr.height)} ${len} · ${method} · ${tr.points_h} lines × ${tr.points_w} points`;
   const where = sys && !String(tr.location).startsWith(sys.tag) ? [sys.tag, tr.location].filter(Boolean).join(' · ') : tr.location;
   put(root, header(`Traverse ${tr.tag}`, where), h('p', { class: 'scr-duct', 'data-test': 'traverse-duct' }, duct),
-    sys && sys.kind === 'rooftop_unit' && caution('roof'));
+    caution(sys && sys.kind === 'rooftop_unit' ? 'roof' : 'ladder'));
 
   const promptBox = h('div', { class: 'card' });
   const gridBox = h('div', { class: 'card scr-gridbox' });
