@@ -248,8 +248,12 @@ func TestBrowserSignoff(t *testing.T) {
 	p.click("[data-test=report-preview]")
 	p.wait("a preview link to a blob", q("[data-test=report-preview-link]")+` && `+q("[data-test=report-preview-link]")+`.href.startsWith('blob:')`)
 
-	// Signing without a signature is refused in the app.
+	// Signing without a name is refused; typing the name clears the message.
+	p.click("[data-test=report-sign]")
+	p.wait("the no-name message", `document.body.textContent.includes('Enter your name')`)
 	p.typeInto("[data-test=signoff-name]", "Alex Lead")
+	p.wait("the no-name message gone once the name is typed", `!document.body.textContent.includes('Enter your name')`)
+	// Signing without a signature is refused in the app.
 	p.typeInto("[data-test=signoff-cert]", "TAB-1234")
 	p.click("[data-test=report-sign]")
 	p.wait("the no-signature message", `document.body.textContent.includes('Draw your signature')`)
@@ -265,6 +269,10 @@ func TestBrowserSignoff(t *testing.T) {
 	p.waitFor("the signed revision", q("[data-test=report-revision][data-revision='1']")+` && `+q("[data-test=report-signed]"), 60*time.Second)
 	if s := p.text("[data-test=report-signed]"); !strings.Contains(s, "Revision 1") {
 		t.Fatalf("signed message: %q", s)
+	}
+	// No stale error, and no preview of the revision now signed.
+	if n := p.count("[data-test=report-signoff] .msg-error, [data-test=report-preview-link]"); n != 0 {
+		t.Errorf("after signing, %d stale errors or previews on the sign-off card: %q", n, p.text("[data-test=report-signoff]"))
 	}
 	rs, err := app.db.Reports(context.Background(), bj.job)
 	if err != nil || len(rs) != 1 || rs[0].Signer != "Alex Lead" {

@@ -1,10 +1,6 @@
-// Service worker: keeps the app's own files so it loads with no connection.
-// Files are served from the cache only; a page load (a navigation) refreshes
-// the whole list from the network in the background for the next load, at
-// most once a minute. So the browser asking again for a file (Chromium
-// fetches the icon on every change of the #hash) costs no request. API
-// answers are never cached here; the app keeps job data in IndexedDB.
-// Browsers run a service worker only in a secure context (https, or localhost).
+// Service worker: the app's own files from the cache, so it loads offline; a
+// page load refreshes the list in the background, at most once a minute. API
+// answers are never cached (job data is in IndexedDB). Secure contexts only.
 
 const VERSION = 'fieldtab-app-v4'; // bump when the list or the caching changes
 const REFRESH_MS = 60000;
@@ -38,13 +34,13 @@ const SHELL = [
   'js/screens/water.js',
   'js/screens/fan.js',
   'js/screens/entry.js',
+  'js/screens/fix.js',
   'js/screens/signoff.js',
   'js/screens/setup.js',
   'js/screens/edit.js',
 ];
 
-// refresh fetches every file of the list, each on its own so a file missing
-// on the server (or no connection) does not stop the rest.
+// refresh: each file on its own, so one missing does not stop the rest.
 async function refresh() {
   refreshedAt = Date.now();
   const cache = await caches.open(VERSION);

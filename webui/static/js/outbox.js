@@ -1,12 +1,7 @@
-// The outbox: every reading is written to IndexedDB before anything else
-// happens to it, then sent by sync.js. An entry is
-//   waiting  — not yet acknowledged by the server (sent again until it is);
-//   sent     — acknowledged (stored or duplicate) with the change number `seq`
-//              under the server run `boot_id`, kept until the server says that
-//              change is on its disk (durable_seq ≥ seq, same boot_id);
-//   rejected — the server refused it; it stays, with the reason, until it is
-//              fixed or discarded.
-// The server ignores a reading id it already has, so sending twice is safe.
+// The outbox: every reading goes to IndexedDB first, then sync.js sends it.
+// waiting: not yet acknowledged; sent: acknowledged with `seq` under `boot_id`,
+// kept until that change is on the server's disk and in the view; rejected:
+// refused, kept with the reason until fixed or discarded. Resending is safe.
 
 import { store } from './store.js';
 
@@ -14,8 +9,7 @@ const rows = new Map(); // id → row, the in-memory copy of the outbox store
 const listeners = new Set();
 let kick = () => {};
 
-// newUUID: a version 4 UUID from crypto.getRandomValues (crypto.randomUUID
-// exists only in secure contexts, and a LAN page over http is not one).
+// newUUID: a v4 UUID (crypto.randomUUID needs a secure context; LAN http is not).
 export function newUUID() {
   const b = crypto.getRandomValues(new Uint8Array(16));
   b[6] = (b[6] & 0x0f) | 0x40;
@@ -45,6 +39,7 @@ function cleanReading(r) {
     supersedes: r.supersedes || '',
     void: !!r.void,
     note: r.note || '',
+    confirmed: !!r.confirmed, // the technician confirmed a value far from design or its neighbours
   };
   if (!out.void && r.value !== null && r.value !== undefined) out.value = Number(r.value);
   return out;
@@ -64,7 +59,6 @@ export const outbox = {
     for (const r of await store.outboxAll()) rows.set(r.id, r);
   },
 
-  // sync.js registers how to start a send.
   setKick(fn) { kick = fn; },
 
   // add(jobId, reading) resolves once the entry is on disk, then starts a send.
@@ -78,8 +72,7 @@ export const outbox = {
     return row;
   },
 
-  // addMany(jobId, readings): several entries in one transaction (a screen
-  // that saves a group of values with one button).
+  // addMany: several entries in one transaction.
   async addMany(jobId, readings) {
     const now = Date.now();
     const list = readings.map((r, i) => {
@@ -118,9 +111,8 @@ export const outbox = {
     notify();
   },
 
-  // fix(id, newValue, changes): replaces a rejected entry by a corrected
-  // reading with a new id (the first one never reached the store). The time
-  // it was taken stays that of the original.
+  // fix: a rejected entry replaced by a corrected one with a new id (the first
+  // never reached the store), taken at the original's time.
   async fix(id, newValue, changes = {}) {
     const old = rows.get(id);
     if (!old) return null;
@@ -136,11 +128,8 @@ export const outbox = {
 
   onChange(fn) { listeners.add(fn); return () => listeners.delete(fn); },
 
-  // ---- for sync.js ----
-
   waiting(jobId) { return this.entries(jobId).filter((r) => r.state === 'waiting'); },
 
-  // applyResults records the server's answer to a batch.
   async applyResults(jobId, response) {
     const puts = [];
     for (const res of response.results || []) {
@@ -183,9 +172,8 @@ export const outbox = {
     notify();
   },
 
-  // resend puts sent entries back to waiting when the server run changed
-  // (bootId differs: the laptop may have lost power before its disk sync) or,
-  // with bootId null, always (the server lost the job's state).
+  // resend: sent entries back to waiting when the server run changed (it may
+  // have lost power before its disk sync) or, bootId null, always.
   async resend(jobId, bootId) {
     const puts = [];
     for (const r of rows.values()) {

@@ -1,7 +1,5 @@
-// sync: sends the outbox, pulls what changed, and keeps the last view of the
-// job ({job, snapshot, results}) in IndexedDB so screens work offline.
-// Results are only ever the server's: after anything changed the whole job
-// is fetched again, nothing is computed here.
+// sync: sends the outbox, pulls what changed and keeps the last view of the
+// job in IndexedDB for offline use. After any change the whole job is fetched.
 
 import { api, enc } from './api.js';
 import { store } from './store.js';
@@ -105,11 +103,8 @@ function check(gen) {
   if (gen !== generation) throw new Stale();
 }
 
-// The answer to every batch and every changes pull says which server run
-// it came from and how far its disk is synced.
 async function acknowledge(j, res) {
-  // Sent entries from another server run go back to waiting: that run may
-  // have lost them in a power cut before its disk sync.
+  // Sent entries of another server run go back to waiting (a power cut).
   if (res.boot_id && (await outbox.resend(j, res.boot_id)) > 0) again = true;
 }
 
@@ -127,8 +122,7 @@ async function pushAll(j, gen) {
       // the entries waiting rather than reject them.
       if (e.retryable || e.status === 401 || e.status === 404) throw e;
       check(gen);
-      // The request as a whole was refused. Try each entry alone so one bad
-      // entry cannot hold back the others; then the refusal is that entry's.
+      // Refused as a whole: each entry alone, so one bad one holds back none.
       if (batch.length > 1) {
         for (const row of batch) await pushOne(j, gen, row);
         continue;
@@ -140,9 +134,13 @@ async function pushAll(j, gen) {
     contact();
     await acknowledge(j, res);
     await outbox.applyResults(j, res);
-    await outbox.confirmDurable(j, res.boot_id, res.durable_seq || 0);
+    await confirm(j, res);
   }
 }
+
+// confirm drops sent entries on the server's disk and in our view, so a
+// screen never sees a reading gone from both (a traverse point read twice).
+const confirm = (j, res) => outbox.confirmDurable(j, res.boot_id, Math.min(res.durable_seq || 0, seq));
 
 async function pushOne(j, gen, row) {
   try {
@@ -189,7 +187,7 @@ async function pull(j, gen) {
   await acknowledge(j, ch);
   const changed = ch.seq !== seq || Object.values(ch).some((v) => Array.isArray(v) && v.length > 0);
   if (changed) await full(j, gen);
-  await outbox.confirmDurable(j, ch.boot_id, ch.durable_seq || 0);
+  await confirm(j, ch);
 }
 
 export const sync = {
@@ -217,7 +215,6 @@ export const sync = {
     backoff = 0;
   },
 
-  // kick: send and pull soon (after the caller's own awaits have run).
   kick() { if (jobId) schedule(0); },
 
   // refresh: fetch the whole job now (after a lead's edit).
@@ -228,7 +225,6 @@ export const sync = {
     emitStatus();
   },
 
-  // noteContact: any answer from the server (api.js reports them all).
   noteContact() { contact(); emitStatus(); },
 
   view() { return view; },
@@ -252,9 +248,8 @@ export const sync = {
   },
 };
 
-// beat probes the server when nothing else has reached it lately. A failed
-// probe marks it unreachable at once; an answer after a failure sends what
-// waits without sitting out the retry backoff.
+// beat probes a server not heard from lately: a failure shows at once, an
+// answer after one sends what waits without the backoff.
 async function beat() {
   if (document.visibilityState === 'hidden' || !api.hasToken()) return;
   if (navigator.onLine === false || Date.now() - lastContactMs < 1000) return;

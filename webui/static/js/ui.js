@@ -1,9 +1,7 @@
-// Small DOM helpers. Every piece of text goes in as a text node or an
-// attribute value, never as markup, so a tag like `<script>` shows as text.
+// DOM helpers: text goes in as text nodes or attribute values, never markup.
 
 const SVG_NS = 'http://www.w3.org/2000/svg';
-// Tags that only exist in SVG: h() creates them in the SVG namespace so a
-// chart can be built with the same helper.
+// Tags h() makes in the SVG namespace.
 const SVG_TAGS = new Set(['svg', 'g', 'circle', 'ellipse', 'line', 'path', 'polyline', 'polygon',
   'rect', 'text', 'tspan', 'defs', 'marker', 'clipPath', 'use']);
 
@@ -38,10 +36,8 @@ export function h(tag, attrs, ...children) {
   return build(el, attrs, children);
 }
 
-// svg(tag, …) always builds in the SVG namespace (for tags shared with HTML, e.g. title, a).
-export function svg(tag, attrs, ...children) {
-  return build(document.createElementNS(SVG_NS, tag), attrs, children);
-}
+// svg(tag, …): always in the SVG namespace (the chart's title, a).
+export const svg = (tag, attrs, ...children) => build(document.createElementNS(SVG_NS, tag), attrs, children);
 
 export function clear(el) {
   while (el.firstChild) el.removeChild(el.firstChild);
@@ -53,8 +49,7 @@ export function clear(el) {
 export const put = (el, ...children) => { append(el, children); return el; };
 export const fill = (el, ...children) => put(clear(el), ...children);
 
-// fmt(1234.5) → "1,235"; fmt(null) → "—". Without digits, the digits follow
-// the size of the number (about three significant figures, at least whole units).
+// fmt(1234.5) → "1,235"; fmt(null) → "—"; digits by default from the size.
 export function fmt(value, digits) {
   if (value === null || value === undefined || value === '' || !Number.isFinite(Number(value))) return '—';
   const v = Number(value);
@@ -71,8 +66,7 @@ export function fmt(value, digits) {
 }
 const formatters = new Map(); // one Intl formatter per digits: making one per call is slow on long lists
 
-// parseNumber reads what a technician typed: "1420", "-0.55", "12,5" (decimal
-// comma), "1,420" (thousands). Returns null when it is not a number.
+// parseNumber: "1420", "-0.55", "12,5" (decimal comma), "1,420"; else null.
 export function parseNumber(text) {
   let s = String(text ?? '').trim().replace(/\s+/g, '').replace(/^\+/, '');
   if (s === '') return null;
@@ -119,9 +113,7 @@ export function statusBadge(status, text) {
     h('span', { class: 'badge-sym', 'aria-hidden': 'true' }, sym), ' ', text || word);
 }
 
-// Cautions in plain words, one line each (a tap opens the rest) so they do
-// not push the entry fields off a phone's screen. They defer to the
-// documents and the people that govern the site.
+// Cautions, one line each (a tap opens the rest), deferring to the site's rules.
 const DEFER = 'The project specification, local codes, the site safety plan and licensed practice govern; where they say more, follow them.';
 const CAUTIONS = {
   electrical: ['Live electrical', 'qualified, PPE',
@@ -147,23 +139,30 @@ export function caution(kind) {
 
 let fieldSeq = 0;
 
-// numberField({test, label, unit, value}) → {el, input}: a large numeric entry.
-// type=text with inputmode=decimal: the phone shows its number pad and the
-// value is kept as typed (type=number would drop "12," or a minus sign).
-export function numberField({ test, label, unit, value, hint }) {
+// numberField → {el, input}: type=text, inputmode=decimal keeps what is typed
+// ("12,"); signed adds a ± key, as a phone's decimal pad may have no minus.
+export function numberField({ test, label, unit, value, hint, signed }) {
   const id = `nf-${++fieldSeq}`;
   const input = h('input', {
     id, type: 'text', inputmode: 'decimal', autocomplete: 'off', enterkeyhint: 'done',
     class: 'num-input', 'data-test': test, value: value ?? null, 'aria-describedby': hint ? `${id}-hint` : null,
   });
+  const flip = () => {
+    const v = input.value.trim();
+    input.value = v.startsWith('-') ? v.slice(1) : `-${v}`;
+    input.dispatchEvent(new Event('input', { bubbles: true }));
+    input.focus();
+  };
   const el = h('div', { class: 'num-field' },
     h('label', { for: id }, label),
-    h('div', { class: 'num-row' }, input, unit ? h('span', { class: 'num-unit' }, unit) : null),
+    h('div', { class: 'num-row' }, input,
+      signed && h('button', { type: 'button', class: 'btn secondary sign-key', 'data-test': 'sign-toggle', 'data-for': test, 'aria-label': 'plus or minus', on: { click: flip } }, '±'),
+      unit ? h('span', { class: 'num-unit' }, unit) : null),
     hint ? h('div', { class: 'hint', id: `${id}-hint` }, hint) : null);
   return { el, input };
 }
 
-// select(options, attrs): options are [value, text] pairs.
+// select(attrs, [[value, text]…], selected).
 export function select(attrs, options, selected) {
   const el = h('select', attrs, options.map(([v, t]) => h('option', { value: v }, t)));
   if (selected !== undefined && selected !== null) el.value = selected;
@@ -172,7 +171,6 @@ export function select(attrs, options, selected) {
   return el;
 }
 
-// A labelled control.
 export function field(label, control, hint) {
   if (!control.id) control.id = `f-${++fieldSeq}`;
   return h('div', { class: 'field' }, h('label', { for: control.id }, label), control,
@@ -183,12 +181,11 @@ export function button(text, attrs, onClick) {
   return h('button', { type: 'button', class: 'btn', ...attrs, on: { click: onClick } }, text);
 }
 
-// jobHash(ctx, 'outlet', id) → "#/job/JOB/outlet/ID", each part escaped.
+// jobHash(ctx, 'outlet', id) → "#/job/JOB/outlet/ID".
 export function jobHash(ctx, ...parts) {
   return ['#/job', ctx.jobId, ...parts].map((p, i) => (i ? encodeURIComponent(p) : p)).join('/');
 }
 
-// link(text, hash, attrs) → an <a> for the router.
 export function link(text, hash, attrs) {
   return h('a', { href: hash, ...attrs }, text);
 }
@@ -206,7 +203,6 @@ export function timeText(t) {
   return d.toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit' });
 }
 
-// agoText(t) → "40 s ago", "3 min ago", "2 h ago".
 export function agoText(t) {
   const s = Math.max(0, Math.round((Date.now() - new Date(t).getTime()) / 1000));
   if (!Number.isFinite(s)) return '';
@@ -221,16 +217,8 @@ export function dateTimeText(t) {
   return d.toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' });
 }
 
-// Words for record kinds, as the trade says them.
-const KIND_WORDS = {
-  air_handler: 'air handler', rooftop_unit: 'rooftop unit', fan: 'fan', pump: 'pump', water_loop: 'water loop',
-  supply: 'supply', return: 'return', exhaust: 'exhaust', outdoor_air: 'outdoor air',
-  flow_hood: 'flow hood', pitot_tube: 'pitot tube', clamp_meter: 'clamp meter', hydronic_meter: 'hydronic meter',
-  flow_meter: 'flow meter', as_found: 'as found', final: 'final',
-};
-export function kindWord(k) {
-  return KIND_WORDS[k] || String(k || '').replace(/_/g, ' ');
-}
+// kindWord: a record kind in words, as the trade says them ("as found", "rooftop unit").
+export const kindWord = (k) => String(k || '').replace(/_/g, ' ');
 
 // message(kind, text) → a status line; kind "error" is announced to screen readers.
 export function message(kind, text, attrs) {

@@ -1,12 +1,12 @@
-// Capacity test screen: entering and leaving air, outdoor dry bulb and (for a
-// direct source) the airflow. Capacity, uncertainty, the expected rating and
-// the chart's curves all come from the server.
+// Capacity test: entering and leaving air, outdoor dry bulb, a direct airflow;
+// every figure and the chart's curves are the server's.
 import { h, caution } from '../ui.js';
 import { psychroChart, chartRange, loadChart, cachedChart } from '../chart.js';
 import {
-  screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, pendingView, badge, row, num,
-  messages, header, noteLine, nowHint, missingList, put, fill, saveRow, resultCard, notFound,
+  screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, badge, row, num,
+  messages, header, noteLine, nowHint, missingList, put, fill, saveRow, resultCard, notFound, power,
 } from './entry.js';
+import { far, historyView } from './fix.js';
 
 const WORDS = {
   enter_db: 'entering dry bulb', enter_wb: 'entering wet bulb', enter_rh: 'entering RH', enter_dp: 'entering dew point',
@@ -35,11 +35,10 @@ export function render(ctx) {
       trv && h('button', { type: 'button', class: 'btn scr-linkbtn', 'data-test': 'open-traverse', on: { click: () => ctx.go(`#/job/${ctx.jobId}/traverse/${trv.id}`) } }, 'Open the traverse')));
 
   const formBox = h('div', { class: 'card' });
-  const pendingBox = h('div', {}, pendingView(ctx, st));
   const drawForm = () => {
     const fs = [];
     const add = (test, label, qty) => {
-      const f = field(ctx, st, { test, label, kind: 'capacity_test', qty, hint: nowHint(ctx, id, qty, 0, st.stage), inst: qty === 'flow' ? 'flow' : 'air_state' });
+      const f = field(ctx, st, { test, label, kind: 'capacity_test', qty, hint: nowHint(ctx, id, qty, 0, st.stage), inst: qty === 'flow' ? 'flow' : 'air_state', check: qty === 'flow' && sys ? (v) => far(v, sys.design.airflow, `the design ${num(sys.design.airflow, 0, U.air_flow)}`) : null });
       fs.push(f);
       return f.el;
     };
@@ -54,22 +53,22 @@ export function render(ctx) {
       ct.flow_source === 'direct' && h('fieldset', { class: 'scr-group' }, h('legend', {}, 'Airflow, read directly'),
         h('div', { class: 'scr-picks' }, instrumentSelect(ctx, st, 'flow', ['flow_hood', 'anemometer', 'manometer', 'flow_meter'], { label: 'Flow instrument', test: 'instrument-flow' })),
         h('div', { class: 'form-grid' }, add('q-flow', 'Airflow', 'flow'))),
-      saveRow(ctx, st, { test: 'capacity-save', kind: 'capacity_test', id, fs, note, done: () => { drawForm(); fill(pendingBox, pendingView(ctx, st)); } }),
+      saveRow(ctx, st, { test: 'capacity-save', kind: 'capacity_test', id, fs, note, done: drawForm }),
       note);
   };
   drawForm();
 
   const result = resultCard('capacity-result', res && res.status, res, () => {
     const c = res.capacity, u = res.uncertainty || {}, e = res.expected;
-    const pm = (v, unc) => `${num(v, 0, U.power)}${unc ? ` ± ${num(unc, 0)}` : ''}`;
+    const pm = (v, unc) => `${power(v, U.power)}${unc ? ` ± ${num(unc, 0)} ${U.power}` : ''}`;
     const basis = res.flow_basis === 'standard' ? ' (standard air)' : res.flow_basis ? ` (${res.flow_basis}ing air)` : '';
     return [
       h('div', { class: 'scr-status' }, badge(res.status)),
       res.airflow !== undefined && row('Airflow', num(res.airflow, 0, U.air_flow) + basis),
       c && [row(`Total (${c.process})`, pm(c.total, u.total), 'capacity-total'), row('Sensible', pm(c.sensible, u.sensible), 'capacity-sensible'),
-        row('Latent', num(c.latent, 0, U.power), 'capacity-latent'), row('Sensible heat ratio', num(c.shr, 2), 'capacity-shr')],
-      e && row(`Expected total (${EXPECTED[e.source] || e.source})`, num(e.total, 0, U.power), 'capacity-expected'),
-      e && e.sensible !== undefined && row('Expected sensible', num(e.sensible, 0, U.power)),
+        row('Latent', power(c.latent, U.power), 'capacity-latent'), row('Sensible heat ratio', num(c.shr, 2), 'capacity-shr')],
+      e && row(`Expected total (${EXPECTED[e.source] || e.source})`, power(e.total, U.power), 'capacity-expected'),
+      e && e.sensible !== undefined && row('Expected sensible', power(e.sensible, U.power)),
       res.percent_of_expected !== undefined && row('Delivered', `${num(res.percent_of_expected, 1)} % of expected`, 'capacity-percent'),
       e && e.note && h('p', { class: 'hint' }, e.note),
       u.omits && u.omits.length > 0 && h('p', { class: 'hint' }, `The ± leaves out: ${u.omits.join('; ')}.`),
@@ -78,12 +77,11 @@ export function render(ctx) {
 
   const chartBox = h('div', { class: 'card scr-chartbox', 'data-test': 'chart-box' }, h('h2', {}, 'Psychrometric chart'));
   drawChart(ctx, chartBox, res, U);
-  put(root, h('div', { class: 'cols' }, h('div', {}, formBox, pendingBox), h('div', {}, result)), chartBox);
+  put(root, h('div', { class: 'cols' }, h('div', {}, formBox, historyView(ctx, 'capacity_test', id)), h('div', {}, result)), chartBox);
   return root;
 }
 
-// drawChart: from the curves kept in memory at once, else when the server
-// answers; offline with none kept, the states stay as numbers in the result.
+// drawChart: from curves kept in memory, else when the server answers.
 function drawChart(ctx, box, res, U) {
   const enter = res && res.enter, leave = res && res.leave;
   const units = ctx.units || 'ip';

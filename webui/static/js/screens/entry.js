@@ -1,11 +1,10 @@
-// Shared parts of the test screens (traverse, capacity, water, fan): entries
-// that survive a re-render, posting through the outbox, the entries still
-// waiting, and result rows. No engineering here: every figure is the server's.
-import { h, fmt, statusBadge, numberField, parseNumber, put, kindWord, jobHash } from '../ui.js';
+// Shared parts of the test screens: entries that survive a re-render, posting
+// through the outbox, and result rows. Every figure is the server's.
+import { h, fmt, statusBadge, numberField, parseNumber, put, kindWord } from '../ui.js';
 import { store } from '../store.js';
+import { head, ask, noteInput, live } from './fix.js';
 
-// Per-screen state, kept while the app is open (sync updates rebuild screens):
-// what is typed, the stage and instrument picks, the subject it is about.
+// Per-screen state kept while the app is open: typed values, stage, instruments.
 const states = new Map();
 export function screenState(ctx, kind, id, extra) {
   const key = `${kind}:${ctx.jobId}:${id}`;
@@ -16,24 +15,25 @@ export function screenState(ctx, kind, id, extra) {
 export { put, fill } from '../ui.js';
 
 export const jobUnits = (ctx) => (ctx.view.job && ctx.view.job.units) || 'ip';
-export const snap = (ctx) => ctx.view.snapshot || {};
-export const results = (ctx) => ctx.view.results || {};
+export const snap = (ctx) => live(ctx).snapshot || {};
+export const results = (ctx) => live(ctx).results || {};
 export const rUnits = (ctx) => results(ctx).units || {};
 export const byId = (list, id) => (list || []).find((x) => x.id === id) || null;
 export const unitFor = (ctx, kind, qty) => ctx.q.unitFor(kind, qty, jobUnits(ctx));
 export const unitLabel = (ctx, code) => ctx.q.label(code);
 // asEntered: a typed value without float noise (0.125, not 0.12499…).
-export const asEntered = (v) => (Number.isFinite(v) ? String(Number(v.toPrecision(6))) : '—');
+export const asEntered = (v) => (Number.isFinite(v) ? Number(v.toPrecision(6)).toLocaleString('en-US', { maximumFractionDigits: 6 }) : '—');
 export const num = (v, digits, unit) => (Number.isFinite(v) ? `${fmt(v, digits)}${unit ? ' ' + unit : ''}` : '—');
+// power: "120,000 Btu/h (120 MBH, 10.0 tons)" or "35,170 W (35.2 kW)"; a ton is 12,000 Btu/h.
+export const power = (v, u) => (Number.isFinite(v) ? `${num(v, 0, u)} (${u === 'W' ? num(v / 1000, 1, 'kW') : `${num(v / 1000, 1, 'MBH')}, ${num(v / 12000, 1, 'tons')}`})` : '—');
 
-// field: a big numeric entry bound to st.values[test], so what is typed
-// survives this screen redrawing its own parts (main keeps it across its
-// re-renders too, with the cursor).
-export function field(ctx, st, { test, label, kind, qty, point = 0, hint, inst }) {
+// field: a numeric entry bound to st.values[test]; check(v) says why a value
+// is far off ('' when not); signed adds the ± key.
+export function field(ctx, st, { test, label, kind, qty, point = 0, hint, inst, check, signed }) {
   const unit = unitFor(ctx, kind, qty);
-  const f = numberField({ test, label, unit: unitLabel(ctx, unit), value: st.values[test] ?? '', hint: hint || undefined });
+  const f = numberField({ test, label, unit: unitLabel(ctx, unit), value: st.values[test] ?? '', hint: hint || undefined, signed });
   f.input.addEventListener('input', () => { st.values[test] = f.input.value; });
-  return { el: f.el, input: f.input, test, qty, point, unit, label, inst };
+  return { el: f.el, input: f.input, test, qty, point, unit, unitText: unitLabel(ctx, unit), label, inst, check };
 }
 
 const pick = (label, sel) => h('label', { class: 'scr-pick' }, h('span', { class: 'scr-pick-label' }, label), sel);
@@ -45,19 +45,15 @@ export function stageSelect(st, onChange) {
   return pick('Stage', sel);
 }
 
-// defaultStage: the stage of the last entry this device holds for the
-// subject (so a reload mid-walk stays on it), else final once the subject has
-// a final reading, else as found.
+// defaultStage: the stage of this device's last entry, else final once read final.
 function defaultStage(ctx, kind, id) {
   const mine = ctx.outbox.forSubject(ctx.jobId, kind, id);
   if (mine.length) return mine[mine.length - 1].reading.stage;
   return (snap(ctx).readings || []).some((r) => r.subject_id === id && r.stage === 'final') ? 'final' : 'as_found';
 }
 
-// instrumentSelect: the job's instruments, those of the fitting kinds first.
-// st.inst[group] is the pick for that group's fields. The default is the last
-// one used of those kinds on this device (meta "instrument:<kind>", as the
-// outlet screen keeps it), else the first fitting one not overdue.
+// instrumentSelect: the pick st.inst[group], fitting kinds first; by default
+// the last used of those kinds here, else the first fitting one not overdue.
 export function instrumentSelect(ctx, st, group, kinds, { label = 'Instrument', test = 'instrument' } = {}) {
   const cal = (i) => (byId(results(ctx).instruments, i.id) || {}).calibration_status;
   const fits = (i) => kinds.includes(i.kind);
@@ -95,64 +91,43 @@ export function collect(fields) {
   return { items, bad };
 }
 
-// post writes the items to the outbox in one transaction (on disk before it
-// returns) and clears their entries.
-export async function post(ctx, st, kind, subjectId, items) {
-  await ctx.outbox.addMany(ctx.jobId, items.map(({ f, value, supersedes }) => ({
-    subject_kind: kind, subject_id: subjectId, quantity: f.qty, point: f.point, value, unit: f.unit, stage: st.stage,
-    instrument_id: st.inst[f.inst] || '', supersedes: supersedes || '', void: false, note: '',
-  })));
-  for (const { f } of items) {
+// post writes the items to the outbox in one transaction. Their entries are
+// cleared first, so a redraw meanwhile cannot bring one back to save twice.
+export async function post(ctx, st, kind, subjectId, items, extra = {}) {
+  const typed = items.map(({ f }) => [f, f.input.value]);
+  for (const [f] of typed) {
     delete st.values[f.test];
     f.input.value = '';
     delete f.input.dataset.dirty;
   }
+  try {
+    await ctx.outbox.addMany(ctx.jobId, items.map(({ f, value, supersedes, ...more }) => ({
+      subject_kind: kind, subject_id: subjectId, quantity: f.qty, point: f.point, value, unit: f.unit, stage: st.stage,
+      instrument_id: st.inst[f.inst] || '', supersedes: supersedes || '', void: false, note: '', ...extra, ...more,
+    })));
+  } catch (e) {
+    for (const [f, v] of typed) { f.input.value = v; st.values[f.test] = v; }
+    throw e;
+  }
 }
 
-// noteLine: a line beside a Save button; st.msg shows for a few seconds.
+// farReasons: why any item is far off, each said with its label.
+export const farReasons = (items) => items.map(({ f, value }) => {
+  const why = f.check && f.check(value);
+  return why ? `${f.label}: ${asEntered(value)} ${f.unitText} is ${why}.` : '';
+}).filter(Boolean);
+
+// noteLine: beside a Save button; st.msg shows a few seconds.
 export function noteLine(test, st) {
   const p = h('p', { class: 'msg msg-info', 'data-test': test, role: 'status', 'aria-live': 'polite' });
   if (st && st.msg && Date.now() - st.msgAt < 8000) p.textContent = st.msg;
   return p;
 }
 
-// unseen: the subject's entries in the outbox that the server's view does
-// not show yet (waiting, sent but not fetched back, or rejected). The outbox
-// is on disk, so after a reload offline they still show, and still count as read.
-function unseen(ctx, st) {
-  const have = new Set((snap(ctx).readings || []).map((r) => r.id));
-  return ctx.outbox.forSubject(ctx.jobId, st.kind, st.id).filter((e) => !have.has(e.id));
-}
+export { entryLabel } from './fix.js';
+export { head };
 
-// entryLabel: what a reading is of, e.g. "motor amps, leg 2" (the outbox screen shows it too).
-export function entryLabel(ctx, r) {
-  const d = ctx.q.describe(r.subject_kind, r.quantity).replace(/ at a traverse point$|, per leg or single$/, '');
-  return d + (!r.point ? '' : r.subject_kind === 'system' ? `, leg ${r.point}` : `, point ${r.point}`);
-}
-
-const capital = (t) => t.charAt(0).toUpperCase() + t.slice(1);
-
-export function pendingView(ctx, st) {
-  const list = unseen(ctx, st);
-  const box = h('div', { class: 'scr-pending', 'data-test': 'pending' });
-  if (!list.length) return box;
-  const say = { waiting: 'waiting to send', sent: 'sent, result coming' };
-  return put(box, h('h3', {}, 'Saved on this device'), h('ul', { class: 'scr-pending-list' }, list.map((e) => {
-    const r = e.reading;
-    return h('li', { class: `pending${e.state === 'rejected' ? ' rejected' : ''}`, 'data-test': 'pending-entry', 'data-state': e.state, 'data-quantity': r.quantity, 'data-point': String(r.point) },
-      `${capital(entryLabel(ctx, r))} (${kindWord(r.stage)}): ${asEntered(r.value)} ${unitLabel(ctx, r.unit)} `,
-      h('strong', {}, say[e.state] || `rejected: ${e.reason || 'see the outbox'}`),
-      e.state === 'rejected' && [' ', h('a', { class: 'btn danger', href: jobHash(ctx, 'outbox') }, 'Fix or discard it in the outbox')]);
-  })));
-}
-
-// isPending: an entry saved here for this point and stage, not refused, not yet in the view.
-export function isPending(ctx, st, qtys, point, stage) {
-  return unseen(ctx, st).some((e) => qtys.includes(e.reading.quantity) && e.reading.point === point && e.reading.stage === stage && e.state !== 'rejected');
-}
-
-// latest: the current reading at a point and stage ('' any) that the server
-// counts (the latest taken), or null.
+// latest: the view's reading that counts at a point and stage ('' any), or null.
 export function latest(ctx, id, qtys, point, stage) {
   let best = null;
   for (const r of snap(ctx).readings || []) {
@@ -168,7 +143,6 @@ export function nowHint(ctx, id, qty, point, stage) {
   return r && Number.isFinite(r.value) ? `now ${asEntered(r.value)} ${unitLabel(ctx, r.unit)} (${kindWord(r.stage)})` : '';
 }
 
-// Status words beside the colour.
 const WORDS = {
   within: 'within tolerance', low: 'low: below the band', high: 'high: above the band',
   undetermined: 'undetermined with this instrument', meets: 'meets the expected capacity',
@@ -215,16 +189,24 @@ export function saveButton(test, text, onSave) {
   return b;
 }
 
-// saveRow: the Save button of a group of fields; done() redraws the form.
-export const saveRow = (ctx, st, { test, text = 'Save readings', kind, id, fs, note, done }) => h('div', { class: 'scr-actions' },
-  saveButton(test, text, async () => {
-    const { items, bad } = collect(fs);
-    if (bad || !items.length) { note.textContent = bad ? 'A marked entry is not a number.' : 'Nothing typed yet.'; return; }
-    await post(ctx, st, kind, id, items);
-    st.msg = `${items.length} saved on this device.`;
-    st.msgAt = Date.now();
-    done();
-  }));
+// saveRow: the remark and Save button of a group of fields; a value far off
+// is asked about first; done() redraws the form.
+export function saveRow(ctx, st, { test, text = 'Save readings', kind, id, fs, note, done }) {
+  const rm = noteInput(`${test}-note`);
+  const box = h('div', { 'aria-live': 'polite' });
+  return h('div', {}, rm.el, box, h('div', { class: 'scr-actions' },
+    saveButton(test, text, async () => {
+      const { items, bad } = collect(fs);
+      if (bad || !items.length) { note.textContent = bad ? 'A marked entry is not a number.' : 'Nothing typed yet.'; return; }
+      const far = farReasons(items);
+      if (far.length && !(await ask(box, far))) return;
+      await post(ctx, st, kind, id, items, { note: rm.input.value.trim(), confirmed: far.length > 0 });
+      rm.input.value = '';
+      st.msg = `${items.length} saved on this device.`;
+      st.msgAt = Date.now();
+      done();
+    })));
+}
 
 // resultCard: the result area, or a line saying the server has not answered.
 export const resultCard = (test, status, res, body) => put(

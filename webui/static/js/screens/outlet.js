@@ -1,45 +1,33 @@
-// One outlet: its design data, a big entry for the hood (or velocity)
-// reading, the instrument and stage, and the server's result for as found
-// and final. "Next outlet" walks the list without going back to it.
+// One outlet: a big entry for the hood (or velocity) reading and the server's
+// result for as found and final; "Next outlet" walks the list.
 
-import { h, fmt, statusBadge, numberField, select, parseNumber, clean, kindWord, timeText, caution, message, link, jobHash } from '../ui.js';
+import { h, fmt, statusBadge, numberField, select, parseNumber, clean, kindWord, timeText, caution, link, jobHash, put, fill } from '../ui.js';
 import { nextOutlet } from './outlets.js';
+import { screenState, instrumentSelect } from './entry.js';
+import { pendingOf, head, far, ask, noteInput, fixButtons, fixForm, historyView } from './fix.js';
 
 // Instrument kinds that read each outlet quantity, most likely first.
 const PREFERRED = { flow: ['flow_hood'], velocity: ['anemometer', 'pitot_tube', 'multimeter', 'other'] };
-const lastSaved = new Map(); // outlet id → {text, at}, so the note survives a re-render
+const lastSaved = new Map(); // outlet id → the value saved last, so its line survives a re-render
 
-// savedText: what became of the last value saved here.
-function savedText(note, entry, inView) {
-  if (entry && entry.state === 'rejected') return '';
-  if (entry && entry.state === 'waiting') return `Saved ${note.what} on this device; waiting to send.`;
-  if (entry && !inView.has(entry.id)) return `Sent ${note.what}; waiting for the result.`;
-  return `Saved ${note.what}; the server's result is shown.`;
+// expected: reading v in design units, NaN for units the app does not pair.
+function expected(ctx, rec, quantity, unit, v) {
+  const air = (ctx.view.results.units || {}).air_flow, u = ctx.q.label(unit);
+  if (quantity === 'flow') return u === air ? v * (rec.factor || 1) : NaN;
+  if (!(rec.ak > 0)) return NaN;
+  return u === 'fpm' && air === 'cfm' ? v * rec.ak : u === 'm/s' && air === 'L/s' ? v * rec.ak * 1000 : NaN;
 }
 
-// pickInstrument: the one used last for this kind of reading, else the first
-// current one of a likely kind.
-function pickInstrument(ctx, quantity, instruments, cal) {
-  const kindKey = `instrumentKind:outlet:${quantity}`;
-  const kinds = [ctx.store.metaSync(kindKey), ...PREFERRED[quantity]].filter((k) => k !== null && k !== undefined);
-  if (kinds[0] === 'none') return '';
-  for (const k of kinds) {
-    const id = ctx.store.metaSync(`instrument:${k}`);
-    if (id && instruments.some((i) => i.id === id)) return id;
-  }
-  for (const k of kinds) {
-    const i = instruments.find((x) => x.kind === k && (cal.get(x.id) || {}).calibration_status !== 'overdue');
-    if (i) return i.id;
-  }
-  return '';
-}
-
-function stageBlock(ctx, stage, r, o, quantity) {
+function stageBlock(ctx, stage, r, o, quantity, rec) {
   const u = ctx.view.results.units || {};
   const word = stage === 'as_found' ? 'As found' : 'Final';
+  // The reading that counts for this stage (or will, once sent): Correct and Void act on it.
+  const hd = head(ctx, 'outlet', o.id, [quantity], 0, stage);
+  const check = (v, x) => [far(expected(ctx, rec, quantity, x.unit, v), o.design_flow, `the design ${fmt(o.design_flow)} ${u.air_flow || ''}`)];
+  const fix = hd && (fixForm(ctx, hd, { check }) || fixButtons(ctx, hd));
   if (!r) {
     return h('div', { class: 'stage-result', 'data-test': 'outlet-stage', 'data-stage': stage, 'data-status': 'not_read' },
-      h('div', { class: 'row' }, h('h3', { class: 'grow' }, word), statusBadge('not_read')));
+      h('div', { class: 'row' }, h('h3', { class: 'grow' }, word), statusBadge(hd ? 'waiting' : 'not_read')), fix);
   }
   const t = r.tolerance;
   const readUnit = quantity === 'velocity' ? u.velocity : u.air_flow;
@@ -49,12 +37,26 @@ function stageBlock(ctx, stage, r, o, quantity) {
     h('div', { class: 'flow', 'data-test': 'outlet-flow' }, r.flow !== undefined && r.flow !== null ? `${fmt(r.flow)} ${u.air_flow || ''}` : '—'),
     t ? h('p', {}, `${fmt(t.percent_of_design, 1)} % of design ${fmt(o.design_flow)} ${u.air_flow || ''}`) : null,
     t ? h('p', { class: 'band' }, `band ${fmt(t.low)}–${fmt(t.high)} ${u.air_flow || ''}, ± ${fmt(t.uncertainty)} ${u.air_flow || ''} from the instrument`) : null,
-    h('p', { class: 'small muted' }, `read ${fmt(r.reading)} ${readUnit || ''}` + (instr ? ` with ${instr.tag}` : '') + (r.taken_at ? ` at ${timeText(r.taken_at)}` : '')));
+    h('p', { class: 'small muted' }, `read ${fmt(r.reading)} ${readUnit || ''}` + (instr ? ` with ${instr.tag}` : '') + (r.taken_at ? ` at ${timeText(r.taken_at)}` : '')),
+    fix);
+}
+
+// latestLine: the result of the value just saved, under Save: no scrolling.
+function latestLine(ctx, o, n, entry, inView) {
+  if (!n || Date.now() - n.at > 120000 || (entry && entry.state === 'rejected')) return null;
+  const r = o[n.stage];
+  const done = r && (r.reading_id === n.entryId || (!entry && inView.has(r.reading_id)));
+  const u = (ctx.view.results.units || {}).air_flow || '';
+  return h('div', { class: 'latest', 'data-test': 'outlet-latest', 'data-status': done ? r.status : 'waiting' },
+    done
+      ? [h('strong', { class: 'latest-flow' }, `${fmt(r.flow)} ${u}`), ' ',
+        r.tolerance ? `${fmt(r.tolerance.percent_of_design, 0)} % of design ` : '', statusBadge(r.status)]
+      : `Saved ${n.what}. ${entry && entry.state === 'waiting' ? 'Waiting to send.' : 'Waiting for the result.'}`);
 }
 
 export function render(ctx) {
   const id = ctx.params.id;
-  const { view, q, outbox, store } = ctx;
+  const { view, q, outbox } = ctx;
   const rec = (view.snapshot.outlets || []).find((o) => o.id === id);
   const o = (view.results.outlets || []).find((x) => x.id === id);
   if (!rec || !o) {
@@ -66,33 +68,13 @@ export function render(ctx) {
   const unit = q.unitFor('outlet', quantity, ctx.units);
   const sys = (view.results.systems || []).find((s) => s.id === o.system_id);
 
-  // Entries of this outlet the server's view does not show yet.
   const inView = new Set((view.snapshot.readings || []).map((r) => r.id));
   const mine = outbox.forSubject(ctx.jobId, 'outlet', id);
-  const pending = mine.filter((e) => e.state !== 'rejected' && !inView.has(e.id));
-  const rejected = mine.filter((e) => e.state === 'rejected');
+  const pending = pendingOf(ctx, 'outlet', id);
 
-  // Instruments, with the server's calibration status.
-  const cal = new Map((view.results.instruments || []).map((i) => [i.id, i]));
-  const instruments = [...(view.snapshot.instruments || [])].sort((a, b) => {
-    const pa = PREFERRED[quantity].indexOf(a.kind), pb = PREFERRED[quantity].indexOf(b.kind);
-    return (pa < 0 ? 99 : pa) - (pb < 0 ? 99 : pb) || a.tag.localeCompare(b.tag, undefined, { numeric: true });
-  });
-  const instrSel = select({ id: 'instrument', 'data-test': 'instrument' },
-    [['', 'No instrument'], ...instruments.map((i) => {
-      const st = (cal.get(i.id) || {}).calibration_status;
-      return [i.id, `${i.tag} (${kindWord(i.kind)})${st === 'overdue' ? ' — calibration overdue' : ''}`];
-    })],
-    pickInstrument(ctx, quantity, instruments, cal));
-  const instrWarn = h('p', { class: 'msg msg-error', 'data-test': 'instrument-warning', hidden: true });
-  const paintInstrWarn = () => {
-    const c = cal.get(instrSel.value);
-    instrWarn.hidden = !(c && c.calibration_status === 'overdue');
-    if (c) instrWarn.textContent = `${c.tag} is past its calibration date (${c.calibration_due}); readings taken with it are flagged.`;
-  };
-  instrSel.addEventListener('change', paintInstrWarn);
-  paintInstrWarn();
-
+  // Instruments: the one used last for this kind, else a current one of a likely kind.
+  const st = screenState(ctx, 'outlet', id);
+  const instrPick = instrumentSelect(ctx, st, 'main', PREFERRED[quantity]);
   const hasAsFound = !!o.as_found || mine.some((e) => e.reading.stage === 'as_found' && e.state !== 'rejected');
   const stageSel = select({ id: 'stage', 'data-test': 'stage' }, [['as_found', 'As found'], ['final', 'Final']], hasAsFound ? 'final' : 'as_found');
 
@@ -105,20 +87,17 @@ export function render(ctx) {
       : (rec.factor && rec.factor !== 1 ? `As the hood shows it; the server multiplies by the factor ${fmt(rec.factor, 3)}.` : 'As the hood shows it.'),
   });
   const err = h('p', { class: 'msg msg-error', role: 'alert', 'data-test': 'reading-error', hidden: true });
-  const saved = h('p', { class: 'msg msg-ok', role: 'status', 'data-test': 'reading-saved' });
+  const saved = h('div', { role: 'status', 'data-test': 'reading-saved' });
   const note = lastSaved.get(id);
-  if (note && Date.now() - note.at < 120000) saved.textContent = savedText(note, outbox.get(note.entryId), inView);
+  if (note) put(saved, latestLine(ctx, o, note, outbox.get(note.entryId), inView));
+  const remark = noteInput('reading-note');
+  const askBox = h('div', { 'aria-live': 'polite' });
   const saveBtn = h('button', { type: 'submit', class: 'btn big', 'data-test': 'reading-save' }, 'Save');
 
   const resultStatus = pending.length ? 'waiting' : o.status;
   const result = h('div', { class: 'result', 'data-test': 'outlet-result', 'data-status': resultStatus, 'aria-live': 'polite' },
-    pending.map((e) => h('p', { class: 'pending', 'data-test': 'outlet-pending' },
-      `${e.state === 'sent' ? 'Sent, waiting for the result' : 'Waiting to send'}: ${fmt(e.reading.value)} ${q.label(e.reading.unit)}, ${kindWord(e.reading.stage)} (entered ${timeText(e.created)}).`)),
-    rejected.map((e) => h('div', { class: 'pending rejected', 'data-test': 'outlet-rejected' },
-      h('p', {}, `Rejected: ${fmt(e.reading.value)} ${q.label(e.reading.unit)}, ${kindWord(e.reading.stage)}: ${e.reason}`),
-      link('Fix or discard it in the outbox', jobHash(ctx, 'outbox'), { class: 'btn danger' }))),
-    stageBlock(ctx, 'as_found', o.as_found, o, quantity),
-    stageBlock(ctx, 'final', o.final, o, quantity));
+    stageBlock(ctx, 'as_found', o.as_found, o, quantity, rec),
+    stageBlock(ctx, 'final', o.final, o, quantity, rec));
 
   async function onSave(ev) {
     ev.preventDefault();
@@ -130,34 +109,37 @@ export function render(ctx) {
       entry.input.focus();
       return;
     }
+    const stage = stageSel.value;
+    const why = far(expected(ctx, rec, quantity, unit, v), o.design_flow, `the design ${fmt(o.design_flow)} ${u.air_flow || ''}`);
+    if (why && !(await ask(askBox, [`${fmt(v)} ${q.label(unit)} is ${why}.`]))) { entry.input.focus(); return; }
     saveBtn.disabled = true;
     const before = result.dataset.status;
     result.dataset.status = 'waiting'; // at once: the old status must not read as this value's
-    const stage = stageSel.value;
-    const instrument = instrSel.value;
+    const instrument = st.inst.main;
+    const typed = entry.input.value;
+    entry.input.value = ''; // at once: a redraw meanwhile must not bring it back to be saved twice
+    clean(entry.input);
     let row;
     try {
       row = await outbox.add(ctx.jobId, {
         subject_kind: 'outlet', subject_id: id, quantity, point: 0, value: v, unit, stage, instrument_id: instrument,
+        note: remark.input.value.trim(), confirmed: !!why,
       });
     } catch (e) {
       saveBtn.disabled = false;
       result.dataset.status = before;
+      entry.input.value = typed;
       err.textContent = `Not saved on this device: ${e.message || e}. Try again.`;
       err.hidden = false;
       return;
     }
-    // Clear at once (before any re-render) so the value cannot be saved twice.
-    entry.input.value = '';
-    clean(entry.input);
+    remark.input.value = '';
+    clean(remark.input);
     clean(stageSel);
     saveBtn.disabled = false;
-    const n = { what: `${fmt(v)} ${q.label(unit)} (${kindWord(stage)})`, entryId: row && row.id, at: Date.now() };
+    const n = { what: `${fmt(v)} ${q.label(unit)} (${kindWord(stage)})`, entryId: row && row.id, at: Date.now(), stage };
     lastSaved.set(id, n);
-    saved.textContent = savedText(n, row, inView);
-    const kind = instrument ? (instruments.find((i) => i.id === instrument) || {}).kind : 'none';
-    store.setMeta(`instrumentKind:outlet:${quantity}`, kind).catch(() => {});
-    if (instrument) store.setMeta(`instrument:${kind}`, instrument).catch(() => {});
+    fill(saved, latestLine(ctx, o, n, row, inView));
   }
 
   const next = nextOutlet(ctx, o.system_id, id);
@@ -166,38 +148,30 @@ export function render(ctx) {
   return h('div', { 'data-test': 'outlet-screen', 'data-tag': o.tag },
     h('div', { class: 'screen-head' },
       h('h1', { 'data-test': 'outlet-tag' }, o.tag),
-      h('p', { class: 'sub' }, [o.room, kindWord(o.kind), rec.size].filter(Boolean).join(' · ')),
+      h('p', { class: 'sub' }, [sys && sys.tag, o.room, kindWord(o.kind), rec.size].filter(Boolean).join(' · ')),
       h('p', { class: 'sub' }, `Design ${fmt(o.design_flow)} ${u.air_flow || ''} · ${rec.method === 'ak' ? 'velocity × Ak' : 'hood'} ${factText}`)),
+    caution('ladder'),
     h('div', { class: 'cols' },
-      // "Next outlet" right under Save: on a phone the thumb moves on without scrolling past the result.
       h('div', {}, h('form', { class: 'card', on: { submit: onSave }, novalidate: true, 'data-test': 'reading-form' },
         entry.el,
         h('div', { class: 'form-grid' },
           h('div', { class: 'field' }, h('label', { for: 'stage' }, 'Stage'), stageSel),
-          h('div', { class: 'field' }, h('label', { for: 'instrument' }, 'Instrument'), instrSel)),
-        instrWarn,
+          instrPick),
+        remark.el,
         err,
+        askBox,
         saveBtn,
         saved),
       h('div', { class: 'next-row' },
         link('All outlets', jobHash(ctx, 'system', o.system_id), { class: 'btn secondary' }),
         next
           ? link(`Next outlet: ${next.tag} ›`, jobHash(ctx, 'outlet', next.id), { class: 'btn', 'data-test': 'next-outlet', 'data-tag': next.tag })
-          : h('span', { class: 'btn secondary', 'data-test': 'end-of-list', 'aria-disabled': 'true' }, 'Last outlet in this list'))),
-      h('section', { class: 'card' },
+          : h('p', { class: 'hint end-of-list', 'data-test': 'end-of-list' }, 'Last outlet in this list.'))),
+      h('div', {}, h('section', { class: 'card' },
         h('div', { class: 'row' }, h('h2', { class: 'grow' }, 'Result'), statusBadge(resultStatus)),
         result,
         (o.flags || []).length ? h('ul', { class: 'flags', 'data-test': 'outlet-flags' }, o.flags.map((f) => h('li', { 'data-kind': f.kind }, f.text))) : null,
-        (o.errors || []).length ? h('ul', { class: 'flags' }, o.errors.map((e) => h('li', {}, e))) : null)),
-    h('section', { class: 'card small' },
-      h('dl', { class: 'facts' },
-        h('dt', {}, 'System'), h('dd', {}, sys ? `${sys.tag} ${sys.name ? `· ${sys.name}` : ''}` : '—'),
-        h('dt', {}, 'Room'), h('dd', {}, o.room || '—'),
-        h('dt', {}, 'Kind'), h('dd', {}, kindWord(o.kind)),
-        h('dt', {}, 'Size'), h('dd', {}, rec.size || '—'),
-        h('dt', {}, 'Design flow'), h('dd', {}, `${fmt(o.design_flow)} ${u.air_flow || ''}`),
-        h('dt', {}, rec.method === 'ak' ? 'Ak' : 'Factor'), h('dd', {}, factText)),
-      ctx.role === 'lead' ? h('p', {}, link('Edit the design data', `${jobHash(ctx, 'lead')}?outlet=${encodeURIComponent(id)}`, { class: 'btn secondary' })) : null,
-      caution('ladder')),
-    !pending.length && !rejected.length ? null : message('info', 'Entries stay on this device until the server has them on disk.'));
+        (o.errors || []).length ? h('ul', { class: 'flags' }, o.errors.map((e) => h('li', {}, e))) : null),
+      historyView(ctx, 'outlet', id, { check: (v, x) => [far(expected(ctx, rec, quantity, x.unit, v), o.design_flow, 'the design flow')] }))),
+    ctx.role === 'lead' ? h('p', {}, link('Edit the design data', `${jobHash(ctx, 'lead')}?outlet=${encodeURIComponent(id)}`, { class: 'btn secondary' })) : null);
 }

@@ -1,6 +1,5 @@
-// Outlet list of one system: filter (not read yet / out of tolerance / all)
-// and search by tag or room. The filter is kept for the session, and the
-// outlet screen's "Next outlet" follows the same list.
+// A system's outlets: filter (kept for the session; "Next outlet" follows it)
+// and a search by tag or room across every system.
 
 import { h, fmt, statusBadge, kindWord, select, clear } from '../ui.js';
 
@@ -13,15 +12,14 @@ export function filterState(jobId, sysId) {
     const s = JSON.parse(sessionStorage.getItem(key(jobId, sysId)) || 'null');
     if (s && ['unread', 'out', 'all'].includes(s.filter)) return { filter: s.filter, search: String(s.search || '') };
   } catch { /* no session storage: defaults */ }
-  return { filter: 'all', search: '' };
+  return { filter: 'unread', search: '' };
 }
 
 function saveFilter(jobId, sysId, st) {
   try { sessionStorage.setItem(key(jobId, sysId), JSON.stringify(st)); } catch { /* fine */ }
 }
 
-// pendingOutlets: outlet ids with an entry the server's view does not show
-// yet (waiting, or sent but not fetched back) → 'waiting' | 'rejected'.
+// pendingOutlets: outlet id → 'waiting' | 'rejected', for entries not in the view.
 export function pendingOutlets(ctx) {
   const inView = new Set((ctx.view.snapshot.readings || []).map((r) => r.id));
   const m = new Map();
@@ -46,8 +44,9 @@ export function systemOutlets(ctx, sysId) {
   return (ctx.view.results.outlets || []).filter((o) => o.system_id === sysId).sort(byTag);
 }
 
-// nextOutlet: the first outlet after `id` in the system's order that the
-// list's filter and search still show.
+const everyOutlet = (ctx) => [...(ctx.view.results.outlets || [])].sort((a, b) => String(a.system_tag).localeCompare(String(b.system_tag)) || byTag(a, b));
+
+// nextOutlet: the next outlet of the system the list's filter still shows.
 export function nextOutlet(ctx, sysId, id) {
   const all = systemOutlets(ctx, sysId);
   const st = filterState(ctx.jobId, sysId);
@@ -59,7 +58,7 @@ export function nextOutlet(ctx, sysId, id) {
 
 function governing(o) { return o.final || o.as_found || null; }
 
-function item(ctx, o, pend, airUnit) {
+function item(ctx, o, pend, airUnit, other) {
   const g = governing(o);
   const stageWord = o.final ? 'final' : 'as found';
   const figs = g && g.flow !== undefined && g.flow !== null
@@ -70,7 +69,7 @@ function item(ctx, o, pend, airUnit) {
     'data-test': 'outlet-item', 'data-tag': o.tag, 'data-status': o.status, 'data-pending': pend || null,
   },
   h('span', { class: 'tag' }, o.tag),
-  h('span', { class: 'room' }, o.room, h('br', {}), h('span', { class: 'figs small' }, `${kindWord(o.kind)} · ${figs}`)),
+  h('span', { class: 'room' }, other ? `${o.system_tag} · ` : '', o.room, h('br', {}), h('span', { class: 'figs small' }, `${kindWord(o.kind)} · ${figs}`)),
   h('span', { class: 'badges' },
     pend ? statusBadge(pend === 'rejected' ? 'rejected' : 'waiting') : null,
     (o.flags || []).length ? statusBadge('flag') : null,
@@ -90,13 +89,13 @@ export function render(ctx) {
     all: all.length,
   };
 
-  const filterSel = select({ id: 'outlet-filter', 'data-test': 'outlet-filter' }, [
-    ['unread', `Not read yet (${counts.unread})`],
-    ['out', `Out of tolerance (${counts.out})`],
+  const filterSel = select({ id: 'outlet-filter', 'data-test': 'outlet-filter', 'aria-label': 'Show' }, [
+    ['unread', `Not read (${counts.unread})`],
+    ['out', `Low or high (${counts.out})`],
     ['all', `All (${counts.all})`],
   ], st.filter);
   const search = h('input', {
-    id: 'outlet-search', type: 'search', 'data-test': 'outlet-search', placeholder: 'Tag or room', autocomplete: 'off', value: st.search || null,
+    id: 'outlet-search', type: 'search', 'data-test': 'outlet-search', placeholder: 'Tag or room', 'aria-label': 'Search', autocomplete: 'off', value: st.search || null,
   });
   const list = h('ul', { class: 'list two', 'data-test': 'outlet-list' });
   const countEl = h('p', { class: 'sub', 'aria-live': 'polite' });
@@ -105,12 +104,14 @@ export function render(ctx) {
   function paint() {
     const cur = { filter: filterSel.value, search: search.value };
     saveFilter(ctx.jobId, sysId, cur);
-    const shown = all.filter((o) => passes(o, cur, pending));
+    // A tag read off a ceiling does not say its system: search them all.
+    const src = cur.search.trim() ? everyOutlet(ctx) : all;
+    const shown = src.filter((o) => passes(o, cur, pending));
     clear(list);
     const frag = document.createDocumentFragment();
-    for (const o of shown) frag.appendChild(item(ctx, o, pending.get(o.id), airUnit));
+    for (const o of shown) frag.appendChild(item(ctx, o, pending.get(o.id), airUnit, o.system_id !== sysId));
     list.appendChild(frag);
-    countEl.textContent = shown.length === all.length ? `${all.length} outlets` : `${shown.length} of ${all.length} outlets shown`;
+    countEl.textContent = src !== all ? `${fmt(shown.length, 0)} found in all systems` : shown.length === all.length ? `${fmt(all.length, 0)} outlets` : `${fmt(shown.length, 0)} of ${fmt(all.length, 0)} outlets shown`;
     if (!shown.length) list.appendChild(h('li', { class: 'item muted' }, cur.filter === 'unread' ? 'Every outlet here is read.' : 'No outlet matches.'));
   }
   filterSel.addEventListener('change', paint);
@@ -122,9 +123,7 @@ export function render(ctx) {
       h('h1', {}, sys ? `${sys.tag} outlets` : 'Outlets'),
       sys ? h('p', { class: 'sub' }, sys.name) : null),
     h('section', { class: 'card' },
-      h('div', { class: 'form-grid' },
-        h('div', { class: 'field' }, h('label', { for: 'outlet-filter' }, 'Show'), filterSel),
-        h('div', { class: 'field' }, h('label', { for: 'outlet-search' }, 'Search'), search)),
+      h('div', { class: 'filter-row' }, search, filterSel),
       countEl,
       list));
 }

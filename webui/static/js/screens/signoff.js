@@ -1,13 +1,10 @@
-// The closeout report: everyone sees and downloads the issued (signed)
-// revisions; a lead previews the next one, draws a signature with a finger
-// and signs it. The server renders and signs the PDF; the app only sends
-// who signs and the drawn signature.
+// The closeout report: issued revisions for all; a lead previews the next,
+// draws a signature and signs (the server renders and signs the PDF).
 
 import { h, button, field, message, fill, dateTimeText } from '../ui.js';
 import { enc } from '../api.js';
 
-// Kept across re-renders: a sync update every few seconds must not wipe a
-// drawn signature, a preview just made or the answer to a sign.
+// Kept across re-renders: the drawn signature, the preview, the answer.
 let state = null;
 
 function stateFor(jobId) {
@@ -21,7 +18,6 @@ function stateFor(jobId) {
   return state;
 }
 
-// ---- the signature pad ----
 
 function makePad() {
   const canvas = h('canvas', {
@@ -68,7 +64,6 @@ function makePad() {
   return pad;
 }
 
-// ---- PDFs: fetched with the device token, handed over as a blob ----
 
 async function fetchPDF(ctx, path) {
   const token = ctx.store.metaSync('token');
@@ -89,8 +84,7 @@ async function fetchPDF(ctx, path) {
   return { blob: await res.blob(), file };
 }
 
-// save hands a blob to the browser as a download (the page's CSP keeps
-// blob: out of frames, but a download link is fine).
+// save: a blob as a download (CSP keeps blob: out of frames, not links).
 function save(url, file) {
   const a = h('a', { href: url, download: file, hidden: true });
   document.body.appendChild(a);
@@ -113,7 +107,6 @@ async function download(ctx, revision, btn, out) {
   }
 }
 
-// ---- issued revisions ----
 
 async function loadList(ctx, st, force) {
   if (!force && st.list && Date.now() - st.listAt < 10000) return;
@@ -145,7 +138,6 @@ function issuedCard(ctx, st) {
     out);
 }
 
-// ---- the lead's sign-off ----
 
 function signCard(ctx, st) {
   const next = st.list ? st.list.next_revision : null;
@@ -159,11 +151,12 @@ function signCard(ctx, st) {
   const msgBox = h('div', { 'aria-live': 'polite' });
   const problem = (text, focus) => { st.error = text; fill(msgBox, message('error', text)); if (focus) focus.focus(); };
   if (st.error) fill(msgBox, message('error', st.error));
+  name.addEventListener('input', () => { if (st.error.startsWith('Enter your name')) { st.error = ''; fill(msgBox); } });
 
   const clearBtn = button('Clear', { class: 'btn secondary', 'data-test': 'signature-clear' }, () => { pad.clear(); paintPad(); });
   const padNote = h('p', { class: 'small muted' });
   const paintPad = () => { padNote.textContent = pad.ink ? 'Signature drawn.' : 'Draw your signature in the box above.'; };
-  pad.onInk = paintPad;
+  pad.onInk = () => { paintPad(); if (st.error.startsWith('Draw your')) { st.error = ''; fill(msgBox); } };
   paintPad();
 
   const previewOut = h('div', { 'aria-live': 'polite' });
@@ -227,6 +220,9 @@ function signCard(ctx, st) {
       st.confirming = false;
       pad.clear();
       st.busy = '';
+      st.error = '';
+      if (st.previewURL) URL.revokeObjectURL(st.previewURL);
+      st.previewURL = '';
       await loadList(ctx, st, true);
     } catch (e) {
       st.busy = '';
@@ -243,7 +239,7 @@ function signCard(ctx, st) {
 
   return h('section', { class: 'card', 'data-test': 'report-signoff' },
     h('h2', {}, `Sign ${revText}`),
-    h('p', { class: 'small muted' }, 'The server makes the PDF from the data it holds now and signs it with its signer certificate. Preview it first and check the figures.'),
+    h('p', { class: 'small muted' }, 'The server makes the PDF from the data it holds now and signs it. Preview it first and check the figures.'),
     done,
     field('Your name', name),
     field('Certification or licence number', cert),

@@ -1,15 +1,15 @@
 // Traverse screen: a duct plane read point by point with a pitot tube (or an
 // anemometer). Point positions, velocities and the flow all come from the
 // server's results; the app only shows them and posts readings.
-import { h, caution, kindWord } from '../ui.js';
+import { h, caution, kindWord, fmt } from '../ui.js';
 import { s } from '../chart.js';
 import {
-  screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, collect, post, pendingView, isPending,
-  badge, row, num, tolerance, messages, header, saveButton, noteLine, latest, nowHint, unitLabel, asEntered,
-  put, fill, saveRow, resultCard, notFound,
+  screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, collect, post, head,
+  badge, row, num, tolerance, messages, header, saveButton, noteLine, nowHint, unitLabel, asEntered,
+  put, fill, saveRow, resultCard, notFound, farReasons,
 } from './entry.js';
+import { historyView, far, median, ask, noteInput } from './fix.js';
 
-const METHODS = { 'log-tchebycheff': 'log-Tchebycheff', 'log-linear': 'log-linear', 'equal-area': 'equal area' };
 const DENSITY = { measured: 'from the air read at the plane', standard: 'standard air (no dry bulb read)', dry_air: 'dry air at the plane dry bulb (no RH or wet bulb)' };
 const PT = ['vp', 'velocity'];
 
@@ -18,19 +18,27 @@ export function pointWords(p, len) {
   const d = len === 'mm' ? 0 : 1;
   const m = /^(line|diameter) (\d+) point (\d+)$/.exec(p.label) || [];
   const head = m[1] ? `${m[1] === 'line' ? 'Line' : 'Diameter'} ${m[2]}, point ${m[3]}` : `Point ${p.point}`;
-  return `${head}: ${p.depth.toFixed(d)} ${len} from the wall` +
-    (p.port_offset !== undefined ? ` (port ${p.port_offset.toFixed(d)} ${len} from the corner)` : '');
+  return `${head}: ${fmt(p.depth, d)} ${len} from the wall` +
+    (p.port_offset !== undefined ? ` (port ${fmt(p.port_offset, d)} ${len} from the corner)` : '');
 }
 
-// pointStates: per point, whether the chosen stage has it read (stored, or
-// waiting in the outbox), the reading a re-read supersedes, and its velocity.
+// pointStates: per point and stage, the reading that counts (a point in the
+// outbox stays read until the view has it), its line and velocity.
 function pointStates(ctx, st, tr, res) {
   const same = res && res.stage === st.stage;
   return ((res && res.points) || []).map((p) => {
-    const stored = latest(ctx, tr.id, PT, p.point, st.stage);
-    const pending = isPending(ctx, st, PT, p.point, st.stage);
-    return { ...p, stored, pending, read: !!stored || pending, readingId: same && p.reading_id ? p.reading_id : stored && stored.id, velocity: same ? p.velocity : undefined };
+    const hd = head(ctx, 'traverse', tr.id, PT, p.point, st.stage);
+    const inView = hd && (snap(ctx).readings || []).some((r) => r.id === hd.id);
+    const m = /^(?:line|diameter) (\d+)/.exec(p.label);
+    return { ...p, stored: hd, pending: !!hd && !inView, read: !!hd, line: m ? Number(m[1]) : 1, velocity: same ? p.velocity : undefined };
   });
+}
+
+// lineCheck: a value far from the median of the other points read on its line
+// (two at least): a slip more often than a real profile (common practice).
+function lineCheck(states, p, qty) {
+  const others = states.filter((x) => x.line === p.line && x.point !== p.point && x.stored && x.stored.quantity === qty && Number.isFinite(x.stored.value));
+  return others.length < 2 ? () => '' : (v) => far(v, median(others.map((x) => Math.abs(x.stored.value))), 'the median of the other points on its line');
 }
 
 // nextUnread: the next point not read after from; all read (a second pass): the next one.
@@ -40,20 +48,20 @@ function nextUnread(states, from) {
   return (from % n) + 1;
 }
 
-// grid draws the plane with each point read, waiting or not read; a tap selects one.
+// grid draws the plane to scale, each point read, waiting or not; velocities
+// (14 px) where the neighbours leave room, else on the point buttons only.
 function grid(tr, states, current, onPick) {
   const W = 320;
-  const svg = s('svg', { class: 'tgrid', 'data-test': 'traverse-grid', role: 'group', 'aria-label': 'Traverse points' });
+  const svg = s('svg', { class: 'tgrid', 'data-test': 'traverse-grid', 'aria-hidden': 'true' });
   // (vx, vy): where the velocity goes from the dot.
-  const dot = (p, cx, cy, hit, vx = 0, vy = 17) => {
+  const dot = (p, cx, cy, room, vx = 0, vy = 20) => {
     const state = p.pending && !p.stored ? 'waiting' : p.read ? 'read' : 'unread';
     return s('g', {
-      class: `tp tp-${state}`, 'data-test': 'grid-point', 'data-point': p.point, 'data-state': state, tabindex: 0, role: 'button',
-      on: { click: () => onPick(p.point), keydown: (e) => { if (e.key === 'Enter' || e.key === ' ') { e.preventDefault(); onPick(p.point); } } },
-    }, s('title', {}, `${p.label}: ${state === 'unread' ? 'not read' : state}`), hit,
+      class: `tp tp-${state}`, 'data-test': 'grid-point', 'data-point': p.point, 'data-state': state, 'aria-hidden': 'true', on: { click: () => onPick(p.point) },
+    }, s('circle', { cx, cy, r: 14, class: 'tp-hit' }),
     p.point === current && s('circle', { cx, cy, r: 11, class: 'tp-ring' }),
     s('circle', { cx, cy, r: 6.5, class: 'tp-dot' }),
-    Number.isFinite(p.velocity) && s('text', { x: cx + vx, y: cy + vy, class: 'tp-vel', 'text-anchor': vx ? 'start' : 'middle' }, String(Math.round(p.velocity))));
+    room && Number.isFinite(p.velocity) && s('text', { x: cx + vx, y: cy + vy, class: 'tp-vel', 'text-anchor': vx ? 'start' : 'middle' }, fmt(p.velocity, 0)));
   };
   if (tr.shape === 'round') {
     const R = W / 2 - 22, c = W / 2, k = R / (tr.diameter / 2), nd = Math.max(1, tr.diameters);
@@ -73,16 +81,13 @@ function grid(tr, states, current, onPick) {
       return { p, cx: c + ux * r, cy: c + uy * r, steep: Math.abs(uy) > 0.7 };
     });
     for (const a of at) {
-      // A finger-sized (44 px) target where the neighbours leave room for one.
       const near = Math.min(...at.filter((b) => b !== a).map((b) => Math.hypot(b.cx - a.cx, b.cy - a.cy)));
-      const hit = Math.max(16, Math.min(22, near / 2));
-      svg.appendChild(dot(a.p, a.cx, a.cy, s('circle', { cx: a.cx, cy: a.cy, r: hit, class: 'tp-hit' }), a.steep ? 10 : 0, a.steep ? 4 : 17));
+      svg.appendChild(dot(a.p, a.cx, a.cy, near >= 36, a.steep ? 10 : 0, a.steep ? 5 : 20));
     }
     return svg;
   }
   const padL = 30, pad = 12, plotW = W - padL - pad;
   const plotH = Math.min(400, Math.max(150, plotW * (tr.height / tr.width), tr.points_h * 52));
-  const cw = plotW / tr.points_w, ch = plotH / tr.points_h;
   svg.setAttribute('viewBox', `0 0 ${W} ${plotH + 2 * pad + 12}`);
   svg.append(s('rect', { x: padL, y: pad, width: plotW, height: plotH, class: 'tduct' }),
     s('text', { x: padL, y: plotH + 2 * pad + 8, class: 'tlabel' }, 'ports on this side'));
@@ -93,9 +98,21 @@ function grid(tr, states, current, onPick) {
       svg.append(s('line', { x1: padL - 8, y1: cy, x2: padL, y2: cy, class: 'tport' }),
         s('text', { x: padL - 11, y: cy + 4, class: 'tlabel', 'text-anchor': 'end' }, m[1]));
     }
-    svg.appendChild(dot(p, cx, cy, s('rect', { x: cx - cw / 2, y: cy - ch / 2, width: cw, height: ch, class: 'tp-hit' })));
+    svg.appendChild(dot(p, cx, cy, plotW / tr.points_w >= 40 && plotH / tr.points_h >= 36));
   }
   return svg;
+}
+
+// pointButtons: a 44 px button per point: on the drawing to scale, near-wall
+// points sit too close together for a finger.
+function pointButtons(states, current, onPick, line) {
+  const lines = [...new Set(states.map((p) => p.line))];
+  return h('div', { 'data-test': 'point-buttons' }, lines.map((n) => h('div', { class: 'tbtn-line' },
+    h('span', { class: 'tbtn-head' }, `${line} ${n}`),
+    states.filter((p) => p.line === n).map((p) => h('button', {
+      type: 'button', class: `tbtn tp-${p.pending ? 'waiting' : p.read ? 'read' : 'unread'}${p.point === current ? ' tbtn-cur' : ''}`,
+      'data-test': 'point-button', 'data-point': p.point, 'aria-pressed': String(p.point === current), on: { click: () => onPick(p.point) },
+    }, h('span', { class: 'tbtn-n' }, String(p.point)), h('span', { class: 'tbtn-v' }, Number.isFinite(p.velocity) ? fmt(p.velocity, 0) : p.read ? '✓' : '·'))))));
 }
 
 export function render(ctx) {
@@ -107,17 +124,16 @@ export function render(ctx) {
   const sys = byId(snap(ctx).systems, tr.system_id);
   const U = rUnits(ctx);
   const len = U.length || 'in';
-  const method = METHODS[tr.method] || tr.method;
+  const method = String(tr.method).replace('tcheb', 'Tcheb').replace('l-a', 'l a');
   const duct = tr.shape === 'round'
-    ? `Round duct ${tr.diameter} ${len} · ${method} · ${tr.diameters} diameters × ${tr.points_per_diameter} points`
-    : `Rectangular duct ${tr.width} × ${tr.height} ${len} · ${method} · ${tr.points_h} lines × ${tr.points_w} points`;
+    ? `Round duct ${asEntered(tr.diameter)} ${len} · ${method} · ${tr.diameters} diameters × ${tr.points_per_diameter} points`
+    : `Rectangular duct ${asEntered(tr.width)} × ${asEntered(tr.height)} ${len} · ${method} · ${tr.points_h} lines × ${tr.points_w} points`;
   const where = sys && !String(tr.location).startsWith(sys.tag) ? [sys.tag, tr.location].filter(Boolean).join(' · ') : tr.location;
   put(root, header(`Traverse ${tr.tag}`, where), h('p', { class: 'scr-duct', 'data-test': 'traverse-duct' }, duct),
-    sys && sys.kind === 'rooftop_unit' && caution('roof'));
+    caution(sys && sys.kind === 'rooftop_unit' ? 'roof' : 'ladder'));
 
   const promptBox = h('div', { class: 'card' });
   const gridBox = h('div', { class: 'card scr-gridbox' });
-  const pendingBox = h('div');
   const resultBox = h('div');
   const planeBox = h('div', { class: 'card' });
 
@@ -126,14 +142,14 @@ export function render(ctx) {
     const states = pointStates(ctx, st, tr, res);
     if (states.length && !states.some((p) => p.point === st.point)) st.point = nextUnread(states, states.length);
     drawPrompt(states);
+    const pick = (n) => { st.point = n; refresh(); };
     fill(gridBox, states.length
-      ? grid(tr, states, st.point, (n) => { st.point = n; refresh(); })
+      ? [grid(tr, states, st.point, pick), pointButtons(states, st.point, pick, tr.shape === 'round' ? 'Diameter' : 'Line')]
       : h('p', { class: 'hint' }, 'The point positions come from the server; they show once it has answered.'),
     h('p', { class: 'scr-legend' }, `● read   ◍ waiting to send   ○ not read   ◎ this point · velocities in ${U.velocity || ''}`));
-    fill(pendingBox, pendingView(ctx, st));
     fill(resultBox, resultCard('traverse-result', res && res.status, res, () => [
       h('div', { class: 'scr-status' }, badge(res.status), ` ${res.points_read} of ${res.points_total} points (${kindWord(res.stage)})`),
-      row('Flow', num(res.flow, 0, U.air_flow), 'traverse-flow'),
+      row(res.density_source === 'standard' ? 'Flow (standard air)' : 'Flow (air at the plane)', num(res.flow, 0, U.air_flow), 'traverse-flow'),
       sys && sys.design && sys.design.airflow > 0 && row('Design', num(sys.design.airflow, 0, U.air_flow)),
       tolerance(res.tolerance, U.air_flow),
       row('Mean velocity', num(res.mean_velocity, 0, U.velocity), 'traverse-velocity'),
@@ -150,14 +166,30 @@ export function render(ctx) {
     qsel.addEventListener('change', () => { st.qty = qsel.value; refresh(); });
     const f = field(ctx, st, { test: 'reading-value', label: st.qty === 'vp' ? 'Velocity pressure' : 'Velocity', kind: 'traverse', qty: st.qty, point: st.point, inst: 'duct_pressure' });
     const note = noteLine('traverse-note');
+    if (p) f.check = lineCheck(states, p, st.qty);
+    const rm = noteInput('reading-note');
+    const box = h('div', { 'aria-live': 'polite' });
     const save = saveButton('reading-save', p ? `Save point ${p.point}` : 'Save', async () => {
       const { items, bad } = collect([f]);
       if (!p || bad || !items.length) { note.textContent = bad ? 'That is not a number.' : 'Type the reading first.'; return; }
-      items[0].supersedes = p.stored ? p.readingId : ''; // a re-read replaces the earlier reading
-      await post(ctx, st, 'traverse', id, items);
+      const farOff = farReasons(items);
+      if (farOff.length && !(await ask(box, farOff))) return;
+      // A second value of a point supersedes the first, even in the outbox
+      // (never two unmarked); as the other quantity, it voids the first.
+      const hd = head(ctx, 'traverse', id, PT, p.point, st.stage);
+      const it = items[0];
+      it.note = rm.input.value.trim();
+      it.confirmed = farOff.length > 0;
+      if (hd && hd.quantity === it.f.qty) it.supersedes = hd.id;
+      const list = hd && hd.quantity !== it.f.qty
+        ? [{ f: { ...it.f, qty: hd.quantity, input: { value: '', dataset: {} } }, value: null, void: true, supersedes: hd.id, unit: hd.unit, note: `read again as ${it.f.qty === 'vp' ? 'velocity pressure' : 'velocity'}` }, it]
+        : [it];
+      await post(ctx, st, 'traverse', id, list);
+      rm.input.value = '';
       st.point = nextUnread(pointStates(ctx, st, tr, byId(results(ctx).traverses, id)), p.point);
+      // A redraw by the app meanwhile put up a new screen: draw that one.
+      if (!root.isConnected) { ctx.rerender(); return; }
       refresh();
-      // Keep the number pad up for the next point.
       const next = promptBox.querySelector('[data-test=reading-value]');
       if (next) next.focus({ preventScroll: true });
     });
@@ -166,10 +198,10 @@ export function render(ctx) {
     const stepBtn = (test, text, d) => h('button', { type: 'button', class: 'btn secondary', 'data-test': test, on: { click: () => step(d) } }, text);
     fill(promptBox,
       h('p', { class: 'scr-prompt', 'data-test': 'traverse-point', 'data-point': String(p ? p.point : 0) }, p ? pointWords(p, len) : 'No point positions yet.'),
-      p && p.stored && h('p', { class: 'hint' }, `Read ${asEntered(p.stored.value)} ${unitLabel(ctx, p.stored.unit)}; saving again replaces it.`),
+      p && p.stored && h('p', { class: 'hint', 'data-test': 'point-read' }, `Read ${asEntered(p.stored.value)} ${unitLabel(ctx, p.stored.unit)}${p.pending ? ' (not sent yet)' : ''}; a new value here corrects it.`),
       h('p', { class: 'hint', 'data-test': 'traverse-progress' }, `${states.filter((x) => x.read).length} of ${states.length} points read (${kindWord(st.stage)}).`),
       h('label', { class: 'scr-pick' }, h('span', { class: 'scr-pick-label' }, 'Reading'), qsel),
-      f.el,
+      f.el, rm.el, box,
       h('div', { class: 'scr-actions' }, save),
       h('div', { class: 'scr-actions' }, stepBtn('point-prev', '‹ Previous', -1), stepBtn('point-next', 'Next ›', 1)),
       note);
@@ -177,14 +209,14 @@ export function render(ctx) {
 
   // Air state and static at the plane: the server takes the density from them.
   const drawPlane = () => {
-    const f = (qty, label, inst) => field(ctx, st, { test: `q-${qty}`, label, kind: 'traverse', qty, inst, hint: nowHint(ctx, id, qty, 0, st.stage) });
-    const fs = [f('air_db', 'Air dry bulb', 'air_state'), f('air_wb', 'Wet bulb', 'air_state'), f('air_rh', 'or RH', 'air_state'), f('static', 'Static pressure', 'duct_pressure')];
+    const f = (qty, label, inst, signed) => field(ctx, st, { test: `q-${qty}`, label, kind: 'traverse', qty, inst, signed, hint: nowHint(ctx, id, qty, 0, st.stage) });
+    const fs = [f('air_db', 'Air dry bulb', 'air_state'), f('air_wb', 'Wet bulb', 'air_state'), f('air_rh', 'or RH', 'air_state'), f('static', 'Static pressure', 'duct_pressure', true)];
     const note = noteLine('plane-note', st);
     fill(planeBox, h('h2', {}, 'At the plane'),
       h('p', { class: 'hint' }, 'Dry bulb with wet bulb or RH gives the air density; without them the server uses standard air.'),
       h('div', { class: 'scr-picks' }, instrumentSelect(ctx, st, 'air_state', ['psychrometer', 'hygrometer', 'thermometer'], { label: 'Air instrument', test: 'instrument-air' })),
       h('div', { class: 'form-grid' }, fs.map((x) => x.el)),
-      saveRow(ctx, st, { test: 'plane-save', text: 'Save plane readings', kind: 'traverse', id, fs, note, done: () => { drawPlane(); fill(pendingBox, pendingView(ctx, st)); } }),
+      saveRow(ctx, st, { test: 'plane-save', text: 'Save plane readings', kind: 'traverse', id, fs, note, done: drawPlane }),
       note);
   };
 
@@ -192,6 +224,6 @@ export function render(ctx) {
     instrumentSelect(ctx, st, 'duct_pressure', ['manometer', 'anemometer']));
   drawPlane();
   refresh();
-  put(root, h('div', { class: 'cols' }, h('div', {}, picks, promptBox, pendingBox, gridBox), h('div', {}, resultBox, planeBox)));
+  put(root, h('div', { class: 'cols' }, h('div', {}, picks, promptBox, gridBox, historyView(ctx, 'traverse', id, { signed: true })), h('div', {}, resultBox, planeBox)));
   return root;
 }

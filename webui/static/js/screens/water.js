@@ -1,11 +1,11 @@
-// Water test screen: a coil or circuit read with a balancing valve (Cv and ΔP)
-// or a flow meter, and its entering and leaving water temperatures. Flow,
-// capacity and the air/water agreement come from the server.
+// Water test: valve ΔP (Cv) or meter flow and the water temperatures; every
+// figure is the server's.
 import { h, caution, statusBadge } from '../ui.js';
 import {
-  screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, pendingView, badge, row, num,
-  tolerance, messages, header, noteLine, nowHint, missingList, jobUnits, put, fill, saveRow, resultCard, notFound,
+  screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, badge, row, num,
+  tolerance, messages, header, noteLine, nowHint, missingList, jobUnits, put, fill, saveRow, resultCard, notFound, power, asEntered,
 } from './entry.js';
+import { far, historyView } from './fix.js';
 
 const FLUIDS = { water: 'water', pg: 'propylene glycol', eg: 'ethylene glycol' };
 const WORDS = { dp: 'the valve ΔP', flow: 'the meter flow', enter_temp: 'entering water temperature', leave_temp: 'leaving water temperature' };
@@ -30,14 +30,14 @@ export function render(ctx) {
   put(root, header(`Water test ${wt.tag}`, sys ? [sys.tag, sys.name].filter(Boolean).join(' · ') : ''),
     caution(hot ? 'hot_water' : 'piping'),
     h('div', { class: 'scr-duct', 'data-test': 'water-source' },
-      h('div', {}, valve ? `Balancing valve, ${si ? 'Kv' : 'Cv'} ${wt.valve_cv}: read the ΔP across it` : 'Flow meter: read the flow'),
+      h('div', {}, valve ? `Balancing valve, ${si ? 'Kv' : 'Cv'} ${asEntered(wt.valve_cv)}: read the ΔP across it` : 'Flow meter: read the flow'),
       h('div', {}, `Fluid: ${fluid} · design ${num(wt.design_flow, 1, U.water_flow)}`),
       linked && h('div', {}, `Air side: capacity test ${linked.tag}`)));
 
   const formBox = h('div', { class: 'card' });
-  const pendingBox = h('div', {}, pendingView(ctx, st));
   const drawForm = () => {
-    const f = (test, label, qty, inst) => field(ctx, st, { test, label, kind: 'water_test', qty, hint: nowHint(ctx, id, qty, 0, st.stage), inst });
+    const f = (test, label, qty, inst) => field(ctx, st, { test, label, kind: 'water_test', qty, hint: nowHint(ctx, id, qty, 0, st.stage), inst,
+      check: qty === 'flow' ? (v) => far(v, wt.design_flow, `the design ${num(wt.design_flow, 1, U.water_flow)}`) : null });
     const fs = [valve ? f('q-dp', 'Valve ΔP', 'dp', 'hydronic') : f('q-flow', 'Meter flow', 'flow', 'hydronic'),
       f('q-enter_temp', 'Entering water', 'enter_temp', 'water_temp'), f('q-leave_temp', 'Leaving water', 'leave_temp', 'water_temp')];
     const note = noteLine('water-note', st);
@@ -47,7 +47,7 @@ export function render(ctx) {
       h('div', { class: 'form-grid' }, fs[0].el),
       h('div', { class: 'scr-picks' }, instrumentSelect(ctx, st, 'water_temp', ['thermometer', 'hydronic_meter'], { label: 'Thermometer', test: 'instrument-temp' })),
       h('div', { class: 'form-grid' }, fs[1].el, fs[2].el),
-      saveRow(ctx, st, { test: 'water-save', kind: 'water_test', id, fs, note, done: () => { drawForm(); fill(pendingBox, pendingView(ctx, st)); } }),
+      saveRow(ctx, st, { test: 'water-save', kind: 'water_test', id, fs, note, done: drawForm }),
       note);
   };
   drawForm();
@@ -61,17 +61,17 @@ export function render(ctx) {
       row('Design', num(res.design_flow, 1, U.water_flow)),
       tolerance(res.tolerance, U.water_flow, 1),
       row('Entering / leaving', `${num(res.enter_temp, 1, t)} / ${num(res.leave_temp, 1, t)}`),
-      c && [row(`Capacity (${c.process})`, num(c.capacity, 0, U.power), 'water-capacity'), row('Mean water temperature', num(c.mean_temp, 1, t))],
+      c && [row(`Capacity (${c.process})`, power(c.capacity, U.power), 'water-capacity'), row('Mean water temperature', num(c.mean_temp, 1, t))],
       res.specific_gravity !== undefined && row('Specific gravity used', num(res.specific_gravity, 3)),
       a && h('div', { class: 'scr-agree', 'data-test': 'water-agreement' },
         h('h3', {}, 'Air side and water side ', a.note ? statusBadge('flag', 'sides differ') : statusBadge('within', 'sides agree')),
-        row('Air side (capacity test)', num(a.air_total, 0, U.power)),
-        row('Water side', num(a.water_capacity, 0, U.power)),
+        row('Air side (capacity test)', power(a.air_total, U.power)),
+        row('Water side', power(a.water_capacity, U.power)),
         row('Difference', `${num(a.difference_pct, 1)} %`, 'water-difference'),
         h('p', { class: 'hint' }, a.note || 'The server finds the two sides in agreement.')),
       missingList(res.missing, WORDS), messages(res)];
   });
 
-  put(root, h('div', { class: 'cols' }, h('div', {}, formBox, pendingBox), h('div', {}, result)));
+  put(root, h('div', { class: 'cols' }, h('div', {}, formBox, historyView(ctx, 'water_test', id)), h('div', {}, result)));
   return root;
 }
