@@ -52,6 +52,7 @@ func TestBrowserTraverseFastEntry(t *testing.T) {
 	p.click("[data-test=reading-save]")
 	app.waitAtLeast(job.job, len(vps)+1)
 	p.waitSync("data-waiting", "0", syncTimeout)
+	p.screenshots("traverse-points", "[data-test=point-buttons]")
 
 	rs := app.readings(job.job)
 	byID := map[string]schema.Reading{}
