@@ -12,10 +12,10 @@ import (
 	"fieldtab/webui"
 )
 
-// jsonFields lists the JSON names of t's fields, nested structs as
+// recordJSONFields lists the JSON names of t's fields, nested structs as
 // "prefix.name" (design.airflow, tolerances.outlet_low_pct), leaving out what
 // the store sets (seq, times, deleted).
-func jsonFields(t reflect.Type, prefix string) []string {
+func recordJSONFields(t reflect.Type, prefix string) []string {
 	var out []string
 	for i := range t.NumField() {
 		f := t.Field(i)
@@ -27,7 +27,7 @@ func jsonFields(t reflect.Type, prefix string) []string {
 			continue
 		}
 		if f.Type.Kind() == reflect.Struct {
-			out = append(out, jsonFields(f.Type, prefix+name+".")...)
+			out = append(out, recordJSONFields(f.Type, prefix+name+".")...)
 			continue
 		}
 		out = append(out, prefix+name)
@@ -65,7 +65,7 @@ func TestAppLabels(t *testing.T) {
 		"job": schema.Job{}, "instrument": schema.Instrument{}, "system": schema.System{}, "outlet": schema.Outlet{},
 		"traverse": schema.Traverse{}, "capacity_test": schema.CapacityTest{}, "water_test": schema.WaterTest{},
 	} {
-		fields := jsonFields(reflect.TypeOf(v), "")
+		fields := recordJSONFields(reflect.TypeOf(v), "")
 		for _, f := range fields {
 			if d, ok := strings.CutPrefix(f, "design."); ok && slices.Contains(labels["design"], d) {
 				continue
