@@ -9,11 +9,11 @@ import (
 )
 
 var (
-	// quoted strips what a message quotes: a value as the client sent it, or
+	// msgQuoted strips what a message quotes: a value as the client sent it, or
 	// the literal values it may send instead.
-	quoted = regexp.MustCompile(`"[^"]*"`)
-	// jsonName is a snake_case or dotted JSON name in prose.
-	jsonName = regexp.MustCompile(`[a-z]+_[a-z_]+|\b(design|tolerances)\.[a-z]`)
+	msgQuoted = regexp.MustCompile(`"[^"]*"`)
+	// msgJSONName is a snake_case or dotted JSON name in prose.
+	msgJSONName = regexp.MustCompile(`[a-z]+_[a-z_]+|\b(design|tolerances)\.[a-z]`)
 )
 
 // TestMessagesInWords checks that validation messages, read after their
@@ -57,7 +57,7 @@ func TestMessagesInWords(t *testing.T) {
 			if code != Invalid || field != c.field || !strings.Contains(msg, c.want) {
 				t.Errorf("%s %s: %q; want invalid, field %s, a message containing %q", code, field, msg, c.field, c.want)
 			}
-			if m := jsonName.FindString(quoted.ReplaceAllString(msg, "")); m != "" {
+			if m := msgJSONName.FindString(msgQuoted.ReplaceAllString(msg, "")); m != "" {
 				t.Errorf("message %q names %q: say it in words", msg, m)
 			}
 			if strings.HasPrefix(strings.ToLower(msg), "performance table") {

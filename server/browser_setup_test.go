@@ -11,47 +11,47 @@ import (
 	"fieldtab/schema"
 )
 
-// fsel selects the setup form's control for the JSON field k.
-func fsel(k string) string { return "[data-test=" + js("f-"+k) + "]" }
+// setupSel selects the setup form's control for the JSON field k.
+func setupSel(k string) string { return "[data-test=" + js("f-"+k) + "]" }
 
-// fill types each value into its field of the setup form; keys ending in
+// fillForm types each value into its field of the setup form; keys ending in
 // "=" are choices (selects) or dates, set as a pick would set them.
-func (p *page) fill(kv ...string) {
+func (p *page) fillForm(kv ...string) {
 	p.t.Helper()
 	for i := 0; i+1 < len(kv); i += 2 {
 		k, v := kv[i], kv[i+1]
 		if strings.HasSuffix(k, "=") {
 			k = strings.TrimSuffix(k, "=")
-			if p.attr(fsel(k), "type") == "date" {
-				p.run("set "+k, chromedp.Evaluate[chromedp.Void]("(() => { const el = "+q(fsel(k))+"; el.value = "+js(v)+
+			if p.attr(setupSel(k), "type") == "date" {
+				p.run("set "+k, chromedp.Evaluate[chromedp.Void]("(() => { const el = "+q(setupSel(k))+"; el.value = "+js(v)+
 					"; el.dispatchEvent(new Event('input', {bubbles: true})); el.dispatchEvent(new Event('change', {bubbles: true})); })()"))
 				continue
 			}
-			p.choose(fsel(k), v)
+			p.choose(setupSel(k), v)
 			continue
 		}
-		p.typeInto(fsel(k), v)
+		p.typeInto(setupSel(k), v)
 	}
 }
 
-// save presses the form's save button and waits for the setup screen.
-func (p *page) saveForm() {
+// saveSetupForm presses the form's save button and waits for the setup screen.
+func (p *page) saveSetupForm() {
 	p.t.Helper()
 	p.click("[data-test=edit-save]")
 	p.waitSel("[data-test=setup-screen]")
 }
 
-// fieldError waits for the error beside field k and returns its text.
-func (p *page) fieldError(k string) string {
+// setupFieldError waits for the error beside field k and returns its text.
+func (p *page) setupFieldError(k string) string {
 	p.t.Helper()
 	sel := "[data-field=" + js(k) + "] [data-test=field-error]"
 	p.waitSel(sel)
 	return p.text(sel)
 }
 
-// internalName matches what a technician must never read: a snake_case or
+// setupInternalName matches what a technician must never read: a snake_case or
 // dotted JSON name.
-var internalName = regexp.MustCompile(`[a-z]+_[a-z_]+|design\.|tolerances\.`)
+var setupInternalName = regexp.MustCompile(`[a-z]+_[a-z_]+|design\.|tolerances\.`)
 
 // TestBrowserSetupJob starts from an empty store: a lead pairs with a join
 // code, creates the job in the app, then a system with its nameplate, an
@@ -87,21 +87,21 @@ func TestBrowserSetupJob(t *testing.T) {
 
 	// An empty store: the lead sees the new-job form at once.
 	p.waitSel("[data-test=edit-screen][data-kind=job]")
-	p.wait("the default tolerances shown", q(fsel("tolerances.fan_low_pct"))+".value === '5'")
-	p.fill("name", "Harbour Clinic", "project_number", "HC-2291", "site_address", "4 Quay Lane", "tab_firm", "Level Air Balancing",
+	p.wait("the default tolerances shown", q(setupSel("tolerances.fan_low_pct"))+".value === '5'")
+	p.fillForm("name", "Harbour Clinic", "project_number", "HC-2291", "site_address", "4 Quay Lane", "tab_firm", "Level Air Balancing",
 		"_air=", "barometric")
 	p.wait("the pressure in psia for an IP job", q("[data-field=barometric] label")+".textContent.includes('psia')")
-	p.fill("units=", "si")
+	p.fillForm("units=", "si")
 	p.wait("the pressure in kPa for an SI job", q("[data-field=barometric] label")+".textContent.includes('kPa')")
-	p.fill("units=", "ip")
-	p.fill("barometric", "200")
+	p.fillForm("units=", "ip")
+	p.fillForm("barometric", "200")
 	p.click("[data-test=edit-save]")
-	if msg := p.fieldError("barometric"); !strings.HasPrefix(msg, "Barometric pressure") || !strings.Contains(msg, "psia") || internalName.MatchString(msg) {
+	if msg := p.setupFieldError("barometric"); !strings.HasPrefix(msg, "Barometric pressure") || !strings.Contains(msg, "psia") || setupInternalName.MatchString(msg) {
 		t.Errorf("the barometric pressure's error reads %q; want it after its label, with its unit, and no internal name", msg)
 	}
-	p.fill("barometric", "14.2")
+	p.fillForm("barometric", "14.2")
 	p.screenshots("setup-job", "[data-field=barometric]")
-	p.saveForm()
+	p.saveSetupForm()
 	jobs, err := app.db.Jobs(ctx)
 	if err != nil || len(jobs) != 1 {
 		t.Fatalf("jobs after the form: %v %v", jobs, err)
@@ -116,50 +116,50 @@ func TestBrowserSetupJob(t *testing.T) {
 
 	// A system with its nameplate and drive; a slipped digit first.
 	p.click("[data-test=add-system]")
-	p.fill("tag", "AHU-1", "kind=", "air_handler", "name", "Clinic air handler", "design.airflow", "40000000")
+	p.fillForm("tag", "AHU-1", "kind=", "air_handler", "name", "Clinic air handler", "design.airflow", "40000000")
 	p.click("[data-test=edit-save]")
-	msg := p.fieldError("design.airflow")
-	if !strings.HasPrefix(msg, "Design airflow") || !strings.Contains(msg, "cfm") || internalName.MatchString(msg) {
+	msg := p.setupFieldError("design.airflow")
+	if !strings.HasPrefix(msg, "Design airflow") || !strings.Contains(msg, "cfm") || setupInternalName.MatchString(msg) {
 		t.Errorf("the airflow's error reads %q; want it after the label Design airflow, in cfm, with no internal name", msg)
 	}
 	p.screenshots("setup-error", "[data-field='design.airflow']")
-	p.fill("design.airflow", "4000", "design.outdoor_air", "800", "design.external_static", "1.2", "design.make", "Northwind Air Works",
+	p.fillForm("design.airflow", "4000", "design.outdoor_air", "800", "design.external_static", "1.2", "design.make", "Northwind Air Works",
 		"design.model", "NW-AH40", "design.serial", "NW24-0193", "design.motor_hp", "5", "design.volts", "460", "design.phase=", "3",
 		"design.fla", "6.8", "design.motor_rpm", "1755", "design.motor_frame", "184T", "design.service_factor", "1.15",
 		"design.fan_rpm", "1120", "design.fan_sheave_size", "1B5V110", "design.fan_sheave_pitch", "11.0",
 		"design.motor_sheave_size", "1VP71", "design.motor_sheave_pitch", "7", "design.belts", "1 × BX64", "design.filters", "8 × 24×24×2 MERV 13",
 		"remarks", "Access panel on the north side")
 	p.screenshots("setup-system", "")
-	p.saveForm()
+	p.saveSetupForm()
 
 	// An instrument, an outlet, a traverse, a capacity test and a water test.
 	p.click("[data-test=add-instrument]")
-	p.fill("tag", "Hood 1", "kind=", "flow_hood", "make", "Tallis Instruments", "calibrated_on=", "2026-06-01", "calibration_due=", "2027-06-01",
+	p.fillForm("tag", "Hood 1", "kind=", "flow_hood", "make", "Tallis Instruments", "calibrated_on=", "2026-06-01", "calibration_due=", "2027-06-01",
 		"accuracy_pct", "3", "accuracy_abs", "5", "accuracy_unit", "cfm")
-	p.saveForm()
+	p.saveSetupForm()
 	p.click(tagSel("setup-system", "AHU-1") + " [data-test=add-outlet]")
-	p.fill("tag", "S-101", "room", "Exam 1", "size", "24x24", "design_flow", "250")
-	p.saveForm()
+	p.fillForm("tag", "S-101", "room", "Exam 1", "size", "24x24", "design_flow", "250")
+	p.saveSetupForm()
 	p.click(tagSel("setup-system", "AHU-1") + " [data-test=add-traverse]")
-	p.fill("tag", "T-1", "location", "Main supply after the fan", "shape=", "round", "method=", "log-linear", "diameter", "16",
+	p.fillForm("tag", "T-1", "location", "Main supply after the fan", "shape=", "round", "method=", "log-linear", "diameter", "16",
 		"points_per_diameter", "7", "diameters", "2")
 	p.click("[data-test=edit-save]")
-	if msg := p.fieldError("points_per_diameter"); !strings.HasPrefix(msg, "Points per diameter") || internalName.MatchString(msg) {
+	if msg := p.setupFieldError("points_per_diameter"); !strings.HasPrefix(msg, "Points per diameter") || setupInternalName.MatchString(msg) {
 		t.Errorf("the traverse's error reads %q; want it after the label Points per diameter, with no internal name", msg)
 	}
-	p.fill("points_per_diameter", "6")
-	p.saveForm()
+	p.fillForm("points_per_diameter", "6")
+	p.saveSetupForm()
 	p.click(tagSel("setup-system", "AHU-1") + " [data-test=add-capacity_test]")
-	p.fill("tag", "CT-1", "mode=", "cooling", "flow_source=", "traverse")
-	p.saveForm()
+	p.fillForm("tag", "CT-1", "mode=", "cooling", "flow_source=", "traverse")
+	p.saveSetupForm()
 	p.click(tagSel("setup-system", "AHU-1") + " [data-test=add-water_test]")
-	p.fill("tag", "CHW coil AHU-1", "valve_cv", "6.3", "fluid=", "pg", "concentration", "30", "design_flow", "12")
+	p.fillForm("tag", "CHW coil AHU-1", "valve_cv", "6.3", "fluid=", "pg", "concentration", "30", "design_flow", "12")
 	p.click("[data-test=edit-save]")
-	if msg := p.fieldError("mode"); !strings.HasPrefix(msg, "Cooling or heating is required") {
+	if msg := p.setupFieldError("mode"); !strings.HasPrefix(msg, "Cooling or heating is required") {
 		t.Errorf("a water test without its mode: %q; want the mode required, in words", msg)
 	}
-	p.fill("mode=", "cooling")
-	p.saveForm()
+	p.fillForm("mode=", "cooling")
+	p.saveSetupForm()
 	p.screenshots("setup", "")
 
 	snap, err := app.db.Snapshot(ctx, job.ID)
@@ -198,17 +198,17 @@ func TestBrowserSetupJob(t *testing.T) {
 	p.screenshots("setup-home", "")
 	p.click("[data-test=open-setup]")
 	p.click(tagSel("edit-outlet", "S-101"))
-	p.fill("design_flow", "275")
-	p.saveForm()
+	p.fillForm("design_flow", "275")
+	p.saveSetupForm()
 	p.click(tagSel("edit-outlet", "S-101"))
 	p.click("[data-test=edit-delete]")
 	p.wait("the delete asks to be confirmed", q("[data-test=edit-delete]")+".textContent.includes('again')")
-	if n := len(mustSnapshot(t, app, job.ID).Outlets); n != 1 {
+	if n := len(setupSnapshot(t, app, job.ID).Outlets); n != 1 {
 		t.Fatalf("one tap on Delete left %d outlets; want the outlet kept until confirmed", n)
 	}
 	p.click("[data-test=edit-delete]")
 	p.waitSel("[data-test=setup-screen]")
-	if n := len(mustSnapshot(t, app, job.ID).Outlets); n != 0 {
+	if n := len(setupSnapshot(t, app, job.ID).Outlets); n != 0 {
 		t.Errorf("%d outlets after a confirmed delete; want 0", n)
 	}
 
@@ -218,18 +218,18 @@ func TestBrowserSetupJob(t *testing.T) {
 	p.wait("the delete asks to be confirmed", q("[data-test=edit-delete]")+".textContent.includes('again')")
 	p.click("[data-test=edit-delete]")
 	p.waitSel("[data-test=edit-error]")
-	if msg := p.text("[data-test=edit-error]"); !strings.HasPrefix(msg, "System AHU-1 still has") || internalName.MatchString(msg) {
+	if msg := p.text("[data-test=edit-error]"); !strings.HasPrefix(msg, "System AHU-1 still has") || setupInternalName.MatchString(msg) {
 		t.Errorf("deleting a system with tests: %q; want it refused in words", msg)
 	}
 	p.goHash("#/job/" + job.ID + "/setup")
 
 	// The units are locked now that the job holds design data.
 	p.click("[data-test=edit-job]")
-	p.wait("the units locked", q(fsel("units"))+".disabled && "+q("[data-field=units]")+".textContent.includes('Locked')")
+	p.wait("the units locked", q(setupSel("units"))+".disabled && "+q("[data-field=units]")+".textContent.includes('Locked')")
 	p.checkConsole(false) // the refused saves' 400s are logged by the network
 }
 
-func mustSnapshot(t *testing.T, app *appServer, job string) *schema.Snapshot {
+func setupSnapshot(t *testing.T, app *appServer, job string) *schema.Snapshot {
 	t.Helper()
 	s, err := app.db.Snapshot(context.Background(), job)
 	if err != nil {

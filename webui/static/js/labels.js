@@ -15,16 +15,17 @@ export const LABELS = {
     kind: 'Instrument', make: 'Make', model: 'Model', serial: 'Serial number', calibrated_on: 'Calibrated on',
     calibration_due: 'Calibration due', accuracy_pct: 'Accuracy, ± % of reading', accuracy_abs: 'Accuracy, ± value', accuracy_unit: 'Unit of the ± value',
   },
-  system: {
-    kind: 'Kind of system', 'design.airflow': 'Design airflow', 'design.outdoor_air': 'Design outdoor air',
-    'design.external_static': 'External static pressure', 'design.rated_total': 'Rated total capacity',
-    'design.rated_sensible': 'Rated sensible capacity', 'design.water_flow': 'Design water flow', 'design.perf_table_csv': 'Performance table',
-    'design.make': 'Unit make', 'design.model': 'Unit model', 'design.serial': 'Unit serial number', 'design.motor_make': 'Motor make',
-    'design.motor_hp': 'Motor power', 'design.volts': 'Motor volts', 'design.phase': 'Phase', 'design.fla': 'Full-load amps',
-    'design.motor_rpm': 'Motor speed', 'design.fan_rpm': 'Fan speed', 'design.motor_frame': 'Motor frame', 'design.service_factor': 'Service factor',
-    'design.fan_sheave_size': 'Fan sheave, as stamped', 'design.fan_sheave_pitch': 'Fan sheave pitch diameter',
-    'design.motor_sheave_size': 'Motor sheave, as stamped', 'design.motor_sheave_pitch': 'Motor sheave pitch diameter',
-    'design.belts': 'Belts', 'design.fan_bushing': 'Fan bushing', 'design.motor_bushing': 'Motor bushing', 'design.filters': 'Filters',
+  system: { kind: 'Kind of system' },
+  // a system's design and nameplate fields, "design.airflow" and so on
+  design: {
+    airflow: 'Design airflow', outdoor_air: 'Design outdoor air', external_static: 'External static pressure',
+    rated_total: 'Rated total capacity', rated_sensible: 'Rated sensible capacity', water_flow: 'Design water flow',
+    perf_table_csv: 'Performance table', make: 'Unit make', model: 'Unit model', serial: 'Unit serial number', motor_make: 'Motor make',
+    motor_hp: 'Motor power', volts: 'Motor volts', phase: 'Phase', fla: 'Full-load amps', motor_rpm: 'Motor speed', fan_rpm: 'Fan speed',
+    motor_frame: 'Motor frame', service_factor: 'Service factor', fan_sheave_size: 'Fan sheave, as stamped',
+    fan_sheave_pitch: 'Fan sheave pitch diameter', motor_sheave_size: 'Motor sheave, as stamped',
+    motor_sheave_pitch: 'Motor sheave pitch diameter', belts: 'Belts', fan_bushing: 'Fan bushing', motor_bushing: 'Motor bushing',
+    filters: 'Filters',
   },
   outlet: { kind: 'Kind of outlet', room: 'Room', size: 'Size', design_flow: 'Design airflow', method: 'Method', factor: 'Hood factor', ak: 'Ak (effective area)' },
   traverse: {
@@ -42,7 +43,8 @@ export const LABELS = {
 // words falls back to its last part in words, never a dotted name.
 export function labelOf(kind, field) {
   const f = field || '';
-  const w = (LABELS[kind] || {})[f] || LABELS.any[f] || f.split('.').pop().replace(/_/g, ' ');
+  const [g, k] = f.startsWith('design.') ? ['design', f.slice(7)] : [kind, f];
+  const w = (LABELS[g] || {})[k] || LABELS.any[f] || f.split('.').pop().replace(/_/g, ' ');
   return w.charAt(0).toUpperCase() + w.slice(1);
 }
 

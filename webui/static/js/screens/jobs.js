@@ -40,7 +40,7 @@ export async function render(ctx) {
         h('li', {}, h('a', { class: 'item', href: `#/job/${encodeURIComponent(j.id)}`, 'data-test': 'job-item', 'data-name': j.name },
           h('span', { class: 'tag' }, j.name),
           h('span', { class: 'room' }, [j.site_address, j.status].filter(Boolean).join(' · ')))))) :
-        h('p', {}, 'No jobs yet. Ask your lead to create the job in the app.')),
+        h('p', {}, lead ? 'No jobs yet.' : 'No jobs yet. Ask your lead to create the job in the app.')),
     h('p', { class: 'actions' }, lead ? h('a', { class: 'btn', href: '#/new-job', 'data-test': 'new-job' }, 'New job') : null,
       h('a', { class: 'btn secondary', href: '#/join' }, 'Join with another code')));
 }
