@@ -32,6 +32,10 @@ type Input struct {
 	// Signoff is the signer's page; nil renders an unsigned report with lines
 	// to sign on.
 	Signoff *Signoff
+	// Issued says this rendering is the revision being signed and stored
+	// (Issue sets it). While it is false every page carries the stamp
+	// "PRELIMINARY — not signed", whoever is named in Signoff.
+	Issued bool
 	// Generated is the report's clock: its date on every page, the PDF's
 	// creation and modification dates, and the time zone all times print in.
 	// The same Input with the same Generated gives the same bytes.
@@ -169,7 +173,9 @@ type doc struct {
 	u            units
 	loc          *time.Location
 	pageW, pageH float64
-	section      string // the running header's right side
+	section      string     // the running header's right side
+	tocPages     []int      // the contents pages, reserved after the cover
+	toc          []tocEntry // the sections laid out so far
 
 	// Design records by ID, for what results do not repeat (sizes, design
 	// and nameplate data).
@@ -236,7 +242,7 @@ func (d *doc) index() {
 
 // parts lists the report's parts in reading order, one per progress step.
 func (d *doc) parts() []func() {
-	p := []func(){d.cover, d.basis, d.findings}
+	p := []func(){d.cover, d.contentsReserve, d.basis, d.findings}
 	for i := range d.r.Systems {
 		sr := &d.r.Systems[i]
 		p = append(p, func() { d.system(sr) })
@@ -246,7 +252,7 @@ func (d *doc) parts() []func() {
 		tr := &d.r.Traverses[i]
 		p = append(p, func() { d.traverse(tr) })
 	}
-	p = append(p, d.waterTests, d.instruments, d.readingLog, d.history, d.signoff)
+	p = append(p, d.waterTests, d.instruments, d.readingLog, d.history, d.signoff, d.contentsFill)
 	return p
 }
 

@@ -36,10 +36,11 @@ func (d *doc) cover() {
 	d.setY(d.y() + 4)
 
 	signed := "Not signed: this copy is a preview, not an issued report."
-	if s := d.in.Signoff; s != nil {
+	if s := d.in.Signoff; s != nil && !d.preliminary() {
 		signed = "Signed by " + s.Name + " on " + d.dateTime(s.SignedAt)
 	}
 	d.pairs(48,
+		[2]string{"Project number", orDash(j.ProjectNumber)},
 		[2]string{"Client or owner", orDash(j.Client)},
 		[2]string{"Engineer of record", orDash(j.Engineer)},
 		[2]string{"Mechanical contractor", orDash(j.Contractor)},
