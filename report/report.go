@@ -185,6 +185,8 @@ type doc struct {
 	captests  map[string]*schema.CapacityTest
 	waters    map[string]*schema.WaterTest
 	insts     map[string]*schema.Instrument
+	readings  map[string]*schema.Reading
+	notesBy   map[string][]string // reading notes by subject, built on first use
 	// Results by ID.
 	rOutlets   map[string]*schema.OutletResult
 	rTraverses map[string]*schema.TraverseResult
@@ -235,6 +237,7 @@ func (d *doc) index() {
 	d.captests = byID(s.CapacityTests, func(x *schema.CapacityTest) string { return x.ID })
 	d.waters = byID(s.WaterTests, func(x *schema.WaterTest) string { return x.ID })
 	d.insts = byID(s.Instruments, func(x *schema.Instrument) string { return x.ID })
+	d.readings = byID(s.Readings, func(x *schema.Reading) string { return x.ID })
 	d.rOutlets = byID(r.Outlets, func(x *schema.OutletResult) string { return x.ID })
 	d.rTraverses = byID(r.Traverses, func(x *schema.TraverseResult) string { return x.ID })
 	d.rCaps = byID(r.CapacityTests, func(x *schema.CapacityTestResult) string { return x.ID })

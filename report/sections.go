@@ -39,18 +39,18 @@ func (d *doc) cover() {
 	if s := d.in.Signoff; s != nil && !d.preliminary() {
 		signed = "Signed by " + s.Name + " on " + d.dateTime(s.SignedAt)
 	}
-	d.pairs(48,
-		[2]string{"Project number", orDash(j.ProjectNumber)},
-		[2]string{"Client or owner", orDash(j.Client)},
-		[2]string{"Engineer of record", orDash(j.Engineer)},
-		[2]string{"Mechanical contractor", orDash(j.Contractor)},
-		[2]string{"Test and balance firm", orDash(j.TABFirm)},
-		[2]string{"Revision", itoa(d.in.Revision)},
-		[2]string{"Report date", d.dateTime(d.in.Generated) + " (" + zoneName(d.in.Generated) + "; all times in this report are in this zone)"},
-		[2]string{"Calibrations judged on", orDash(d.r.Today)},
-		[2]string{"Units", unitSystemName(d.u.si)},
-		[2]string{"Signature", signed},
-	)
+	d.pairs(48, append([][2]string{
+		{"Project number", orDash(j.ProjectNumber)},
+		{"Client or owner", orDash(j.Client)},
+		{"Engineer of record", orDash(j.Engineer)},
+		{"Mechanical contractor", orDash(j.Contractor)},
+		{"Test and balance firm", orDash(j.TABFirm)},
+		{"Revision", itoa(d.in.Revision)},
+		{"Report date", d.dateTime(d.in.Generated) + " (" + zoneName(d.in.Generated) + "; all times in this report are in this zone)"},
+		{"Calibrations judged on", orDash(d.r.Today)},
+		{"Units", unitSystemName(d.u.si)},
+		{"Signature", signed},
+	}, remarkPair(j.Remarks)...)...)
 	d.setY(d.y() + 4)
 	d.font(famSans, "B", sizeH2)
 	d.textLines([]string{"Summary"}, sizeH2, "L")
@@ -418,6 +418,9 @@ func (d *doc) waterTests() {
 	for i := range d.r.WaterTests {
 		w := &d.r.WaterTests[i]
 		d.itemNotes(w.Tag, w.Missing, nil, w.Flags, w.Errors)
+		if wt := d.waters[w.ID]; wt != nil {
+			d.remarks(w.Tag, wt.Remarks, schema.SubjectWaterTest, w.ID)
+		}
 	}
 }
 
@@ -503,6 +506,9 @@ func (d *doc) instruments() {
 	t.end()
 	for _, ir := range d.r.Instruments {
 		d.itemNotes(ir.Tag, nil, nil, nil, ir.Errors)
+		if in := d.insts[ir.ID]; in != nil {
+			d.remarks(in.Tag, in.Remarks, "instrument", in.ID)
+		}
 	}
 }
 

@@ -19,7 +19,8 @@ func (d *doc) system(sr *schema.SystemResult) {
 	var design schema.SystemDesign
 	if sys != nil {
 		design = sys.Design
-		d.pairs(36, [2]string{"Kind", label(sys.Kind)}, [2]string{"Location", orDash(sys.Location)})
+		d.pairs(36, append([][2]string{{"Kind", label(sys.Kind)}, {"Location", orDash(sys.Location)}}, remarkPair(sys.Remarks)...)...)
+		d.nameplate(sys)
 	}
 
 	d.heading(1, "Airflow")
@@ -97,6 +98,7 @@ func (d *doc) system(sr *schema.SystemResult) {
 	d.fanAndMotor(sr, design)
 	d.notes(noteGroup{sr.Tag, sr.Notes})
 	d.itemNotes(sr.Tag, nil, nil, sr.Flags, sr.Errors)
+	d.remarks(sr.Tag, "", schema.SubjectSystem, sr.ID)
 
 	for i := range d.r.CapacityTests {
 		if ct := &d.r.CapacityTests[i]; ct.SystemID == sr.ID {
@@ -340,7 +342,11 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 		verdict = u.pct(*ct.PercentOfExpected) + " of expected: " + verdict
 	}
 	kv = append(kv, [2]string{"Result", verdict})
+	if c := d.captests[ct.ID]; c != nil {
+		kv = append(kv, remarkPair(c.Remarks)...)
+	}
 	d.pairs(40, kv...)
 	d.itemNotes(ct.Tag, ct.Missing, ct.Warnings, ct.Flags, ct.Errors)
+	d.remarks(ct.Tag, "", schema.SubjectCapacityTest, ct.ID)
 	d.psychroChart(ct)
 }

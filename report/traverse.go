@@ -38,8 +38,12 @@ func (d *doc) traverse(tr *schema.TraverseResult) {
 	} else {
 		kv = append(kv, [2]string{"Flow", status(tr.Status)})
 	}
+	if tv != nil {
+		kv = append(kv, remarkPair(tv.Remarks)...)
+	}
 	d.pairs(32, kv...)
 	d.itemNotes(tr.Tag, nil, tr.Warnings, tr.Flags, tr.Errors)
+	d.remarks(tr.Tag, "", schema.SubjectTraverse, tr.ID)
 	if tv != nil && len(tr.Points) > 0 {
 		d.traverseDrawing(tv, tr)
 	}
