@@ -61,8 +61,11 @@ type Signoff struct {
 	Name          string
 	Certification string // certification or licence number
 	Organisation  string
-	SignedAt      time.Time
-	SignaturePNG  []byte // the drawn signature; nil leaves a line to sign on
+	// Statement is the wording the signer certifies; empty prints
+	// DefaultStatement.
+	Statement    string
+	SignedAt     time.Time
+	SignaturePNG []byte // the drawn signature; nil leaves a line to sign on
 }
 
 // Limits on a drawn signature, so that a huge image cannot blow up a report.

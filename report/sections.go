@@ -565,34 +565,33 @@ func groupHex(h string) string {
 
 func (d *doc) signoff() {
 	d.heading(0, "Sign-off")
-	d.para("The readings in this report were taken by the crew on the dates recorded, with the instruments listed, and "+
-		"every figure was computed from them by the methods given in the basis. The report records measured conditions; "+
-		"it defers to the project specification, local codes and the engineer of record.", "", sizeBody)
-	d.setY(d.y() + 6)
 	s := d.in.Signoff
+	d.certification(s)
+	d.setY(d.y() + 6)
+	const labelW = 52.0
 	line := func(lbl, value string) {
 		h := 9.0
 		d.ensure(h)
 		y := d.y()
 		d.font(famSans, "B", sizeBody)
 		d.pdf.SetXY(d.left(), y+2)
-		d.pdf.CellFormat(40, 6, lbl, "", 0, "L", false, 0, "")
+		d.pdf.CellFormat(labelW, 6, lbl, "", 0, "L", false, 0, "")
 		d.font(famSans, "", sizeH2)
-		d.pdf.SetXY(d.left()+40, y+2)
+		d.pdf.SetXY(d.left()+labelW, y+2)
 		d.pdf.CellFormat(110, 6, d.fit(value, 108), "", 0, "L", false, 0, "")
 		d.pdf.SetDrawColor(120, 120, 120)
 		d.pdf.SetLineWidth(0.2)
-		d.pdf.Line(d.left()+40, y+8, d.left()+150, y+8)
+		d.pdf.Line(d.left()+labelW, y+8, d.left()+labelW+110, y+8)
 		d.setY(y + h)
 	}
 	if s == nil {
 		line("Name", "")
-		line("Certification no.", "")
+		line("Certification or licence no.", "")
 		line("Organisation", "")
 		line("Date", "")
 	} else {
 		line("Name", s.Name)
-		line("Certification no.", orDash(s.Certification))
+		line("Certification or licence no.", orDash(s.Certification))
 		line("Organisation", orDash(s.Organisation))
 		line("Date", d.dateTime(s.SignedAt))
 	}
@@ -601,16 +600,16 @@ func (d *doc) signoff() {
 	y := d.y()
 	d.font(famSans, "B", sizeBody)
 	d.pdf.SetXY(d.left(), y+24)
-	d.pdf.CellFormat(40, 6, "Signature", "", 0, "L", false, 0, "")
+	d.pdf.CellFormat(labelW, 6, "Signature", "", 0, "L", false, 0, "")
 	boxW, boxH := 110.0, 30.0
 	if s != nil && s.SignaturePNG != nil {
-		d.signatureImage(s.SignaturePNG, d.left()+40, y, boxW, boxH)
+		d.signatureImage(s.SignaturePNG, d.left()+labelW, y, boxW, boxH)
 	}
 	d.pdf.SetDrawColor(60, 60, 60)
 	d.pdf.SetLineWidth(0.3)
-	d.pdf.Line(d.left()+40, y+boxH, d.left()+40+boxW, y+boxH)
+	d.pdf.Line(d.left()+labelW, y+boxH, d.left()+labelW+boxW, y+boxH)
 	d.setY(y + boxH + 4)
-	if s == nil {
+	if d.preliminary() {
 		d.para("Not signed: a preview. An issued revision carries the signer's drawn signature here and a digital signature on the file.",
 			"I", sizeSmall)
 	}
