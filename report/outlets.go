@@ -16,7 +16,7 @@ func (d *doc) outletTables() {
 	tol := d.s.Job.Tolerances
 	d.para("Flows in "+u.AirFlow+", as measured (not corrected to standard air). The % of design and the status are the final "+
 		"reading's, else the as-found one's, against the outlet tolerance of −"+u.pct(tol.OutletLowPct)+" / +"+
-		u.pct(tol.OutletHighPct)+" with the instrument's accuracy carried through. A status marked * rests on a reading taken "+
+		u.pct(tol.OutletHighPct)+tolSource(tol)+" with the instrument's accuracy carried through. A status marked * rests on a reading taken "+
 		"with an instrument past its calibration date. Remarks are the outlet's own and those entered with its readings. "+
 		"Each system's totals by kind close its table; their % of design is the final flows, else the as-found ones, over the design of the outlets read.", "", sizeBody)
 
@@ -78,7 +78,7 @@ func (d *doc) outletTable(title string, list []*schema.OutletResult) {
 			stageFlow(u, o.Final), pctD, st, d.outletRemarks(remarks, o))
 	}
 	for _, k := range schema.OutletTotals(list) {
-		what := label(k.Kind) + ", " + itoa(k.Read) + " of " + itoa(k.Outlets) + " read"
+		what := label(k.Kind) + ", " + d.count(k.Read) + " of " + d.count(k.Outlets) + " read"
 		note := ""
 		if k.Read > 0 && k.Read < k.Outlets {
 			note = "% of the design of those read (" + u.airU(k.DesignRead) + ")"

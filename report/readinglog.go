@@ -19,11 +19,11 @@ func (d *doc) readingLog() {
 		d.para("No readings are stored for this job.", "", sizeBody)
 		return
 	}
-	d.para(fmt.Sprintf("All %d readings as entered, in the order they reached the store, times in the report's time zone. "+
+	d.para(fmt.Sprintf("All %s readings as entered, in the order they reached the store, times in the report's time zone. "+
 		"A correction replaces the reading it names and a void (no value) withdraws one, with its reason; both stay on record. "+
 		"Of the readings left, the latest taken of each item, point and stage counts; only readings marked \u201ccounts\u201d "+
 		"enter the figures above. \u201cConfirmed\u201d marks a value the technician confirmed when it was far from design or "+
-		"from its neighbours.", len(rs)), "", sizeBody)
+		"from its neighbours.", d.count(len(rs))), "", sizeBody)
 	lg := newLogIndex(rs)
 	labels := schema.UnitLabels()
 	t := d.newTable(column{head: "Taken", w: 1.5}, column{head: "On", w: 1.3}, column{head: "Reading", w: 1.6},

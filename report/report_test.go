@@ -154,7 +154,7 @@ func TestRenderDemoJob(t *testing.T) {
 		for _, w := range []string{
 			"Delivered total " + norm(pm(u.power(ct.Capacity.Total), u.powerU(ct.Uncertainty.Total))),
 			"Delivered sensible " + norm(pm(u.power(ct.Capacity.Sensible), u.powerU(ct.Uncertainty.Sensible))),
-			norm(u.powerU(ct.Expected.Total)) + " total",
+			norm(u.capU(ct.Expected.Total)) + " total",
 			norm(u.pct(*ct.PercentOfExpected)) + " of expected: " + status(ct.Status),
 			"Psychrometric chart of " + ct.Tag,
 		} {

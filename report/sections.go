@@ -95,13 +95,13 @@ func (d *doc) summary() [][2]string {
 	}
 	n := len(r.Outlets)
 	rows := [][2]string{
-		{"Outlets within tolerance", fmt.Sprintf("%d of %d", count["within"], n)},
-		{"Outlets out of tolerance", fmt.Sprintf("%d (%d low, %d high)", count["low"]+count["high"], count["low"], count["high"])},
-		{"Outlets the instrument's accuracy cannot decide", itoa(count["undetermined"])},
-		{"Outlets not read", itoa(count[schema.ResultNotRead])},
+		{"Outlets within tolerance", fmt.Sprintf("%s of %s", d.count(count["within"]), d.count(n))},
+		{"Outlets out of tolerance", fmt.Sprintf("%s (%s low, %s high)", d.count(count["low"]+count["high"]), d.count(count["low"]), d.count(count["high"]))},
+		{"Outlets the instrument's accuracy cannot decide", d.count(count["undetermined"])},
+		{"Outlets not read", d.count(count[schema.ResultNotRead])},
 	}
 	if c := count[schema.ResultError]; c > 0 {
-		rows = append(rows, [2]string{"Outlets whose flow could not be computed", itoa(c)})
+		rows = append(rows, [2]string{"Outlets whose flow could not be computed", d.count(c)})
 	}
 	within, judged := 0, 0
 	for _, s := range r.Systems {
@@ -112,7 +112,7 @@ func (d *doc) summary() [][2]string {
 			}
 		}
 	}
-	rows = append(rows, [2]string{"Systems with airflow within the fan tolerance", fmt.Sprintf("%d of %d with a measured airflow", within, judged)})
+	rows = append(rows, [2]string{"Systems with airflow within the fan tolerance", fmt.Sprintf("%s of %s with a measured airflow", d.count(within), d.count(judged))})
 	// A system meets capacity when every capacity test on it meets.
 	tested, meets := map[string]bool{}, map[string]bool{}
 	var order []string
@@ -134,7 +134,7 @@ func (d *doc) summary() [][2]string {
 			m++
 		}
 	}
-	rows = append(rows, [2]string{"Systems meeting capacity", fmt.Sprintf("%d of %d with a capacity test", m, len(order))})
+	rows = append(rows, [2]string{"Systems meeting capacity", fmt.Sprintf("%s of %s with a capacity test", d.count(m), d.count(len(order)))})
 	if len(r.CapacityTests) > 0 {
 		var parts []string
 		for _, st := range []string{schema.ResultMeets, schema.ResultShort, "undetermined", schema.ResultNoExpected,
@@ -144,7 +144,7 @@ func (d *doc) summary() [][2]string {
 				if st == schema.ResultMeets {
 					word = "meet"
 				}
-				parts = append(parts, itoa(c)+" "+word)
+				parts = append(parts, d.count(c)+" "+word)
 			}
 		}
 		rows = append(rows, [2]string{"Capacity tests", strings.Join(parts, ", ")})
@@ -156,7 +156,7 @@ func (d *doc) summary() [][2]string {
 		}
 	}
 	if len(r.WaterTests) > 0 {
-		rows = append(rows, [2]string{"Water flows within tolerance", fmt.Sprintf("%d of %d", wIn, len(r.WaterTests))})
+		rows = append(rows, [2]string{"Water flows within tolerance", fmt.Sprintf("%s of %s", d.count(wIn), d.count(len(r.WaterTests)))})
 	}
 	over := 0
 	for _, in := range r.Instruments {
@@ -165,8 +165,8 @@ func (d *doc) summary() [][2]string {
 		}
 	}
 	rows = append(rows,
-		[2]string{"Instruments past their calibration due date", fmt.Sprintf("%d of %d", over, len(r.Instruments))},
-		[2]string{"Findings (listed after the basis)", itoa(len(r.Findings))})
+		[2]string{"Instruments past their calibration due date", fmt.Sprintf("%s of %s", d.count(over), d.count(len(r.Instruments)))},
+		[2]string{"Findings (listed after the basis)", d.count(len(r.Findings))})
 	return rows
 }
 
@@ -281,7 +281,8 @@ func (d *doc) findings() {
 		return
 	}
 	d.para("Every deficiency the readings show, in the order of the sections that follow: what is out of tolerance, "+
-		"capacity short of expected, readings taken with an instrument past its calibration date, and outlets never read.", "", sizeBody)
+		"capacity short of expected, readings taken with an instrument past its calibration date, and outlets never read. "+
+		d.limitsNote(), "", sizeBody)
 	t := d.newTable(column{head: "#", w: 0.5, align: "R"}, column{head: "Kind", w: 2.2},
 		column{head: "Where", w: 3}, column{head: "What", w: 7})
 	n := 0
@@ -399,7 +400,7 @@ func (d *doc) waterTests() {
 		w := &d.r.WaterTests[i]
 		water, ctTag, air, diff, note := dash, dash, dash, dash, ""
 		if w.Capacity != nil {
-			water = u.power(w.Capacity.Capacity) + " " + w.Capacity.Process
+			water = u.power(w.Capacity.Capacity) + " (" + u.capAlt(w.Capacity.Capacity) + ") " + w.Capacity.Process
 		}
 		if wt := d.waters[w.ID]; wt != nil && wt.CapacityTest != "" {
 			if c := d.rCaps[wt.CapacityTest]; c != nil {
@@ -407,7 +408,7 @@ func (d *doc) waterTests() {
 			}
 		}
 		if a := w.AirSide; a != nil {
-			air, diff, note = u.power(a.AirTotal), signedPct(u, a.DifferencePct), a.Note
+			air, diff, note = u.power(a.AirTotal)+" ("+u.capAlt(a.AirTotal)+")", signedPct(u, a.DifferencePct), a.Note
 		}
 		if note == "" && len(w.Notes) > 0 {
 			note = strings.Join(w.Notes, "; ")

@@ -286,8 +286,6 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 	}
 	t.end()
 
-	basis := map[string]string{"standard": "standard air (" + standardAir(u.si) + ")", "enter": "density at the entering state",
-		"leave": "density at the leaving state"}[ct.FlowBasis]
 	src := label(ct.FlowSource)
 	if c := d.captests[ct.ID]; c != nil && ct.FlowSource == "traverse" {
 		if tr := d.rTraverses[c.TraverseID]; tr != nil {
@@ -300,24 +298,21 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 	}
 	air := dash
 	if ct.Airflow != nil {
-		air = u.airU(*ct.Airflow) + " from " + src
-		if basis != "" {
-			air += ", mass flow on " + basis
-		}
+		air = u.flowOnBasis(*ct.Airflow, ct.FlowBasis) + ", from " + src
 	}
 	kv := [][2]string{{"Airflow", air}, {"Outdoor dry bulb", u.tempP(ct.OutdoorDB)}}
 	if c := ct.Capacity; c != nil {
 		unc := ct.Uncertainty
 		withU := func(v float64, du func(*schema.CapacityUncertainty) float64) string {
 			if unc == nil {
-				return u.powerU(v)
+				return u.capU(v)
 			}
-			return pm(u.power(v), u.powerU(du(unc)))
+			return u.capPM(v, du(unc))
 		}
 		kv = append(kv,
 			[2]string{"Delivered total", withU(c.Total, func(x *schema.CapacityUncertainty) float64 { return x.Total }) + " (" + c.Process + ")"},
 			[2]string{"Delivered sensible", withU(c.Sensible, func(x *schema.CapacityUncertainty) float64 { return x.Sensible })},
-			[2]string{"Latent", u.powerU(c.Latent)},
+			[2]string{"Latent", u.capU(c.Latent)},
 			[2]string{"Sensible heat ratio", u.n(c.SHR, 2)})
 		if unc != nil && len(unc.Omits) > 0 {
 			kv = append(kv, [2]string{"± leaves out", strings.Join(unc.Omits, ", ") + " (no accuracy on record)"})
@@ -328,9 +323,9 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 		if src == "" {
 			src = label(ex.Source)
 		}
-		exp := u.powerU(ex.Total) + " total"
+		exp := u.capU(ex.Total) + " total"
 		if ex.Sensible != nil {
-			exp += ", " + u.powerU(*ex.Sensible) + " sensible"
+			exp += ", " + u.capU(*ex.Sensible) + " sensible"
 		}
 		kv = append(kv, [2]string{"Expected", exp + ", from the " + src})
 		if ex.Note != "" {
