@@ -53,15 +53,31 @@ func (d *doc) outletTables() {
 func (d *doc) outletTable(title string, list []*schema.OutletResult) {
 	u := d.u
 	d.heading(1, title)
-	t := d.newTable(column{head: "Tag", w: 1.1}, column{head: "Room", w: 2.1}, column{head: "Kind", w: 1},
-		column{head: "Size", w: 1}, column{head: "Design", w: 1, align: "R"}, column{head: "As found", w: 1.15, align: "R"},
-		column{head: "Final", w: 0.95, align: "R"}, column{head: "% of design", w: 0.9, align: "R"}, column{head: "Status", w: 1.5},
-		column{head: "Remarks", w: 2.6})
-	t.strong = func(col int, s string) bool { return (col == 8 && deficientLabel(s)) || (col == 0 && s == "Total") }
-	for _, o := range list {
-		size, remarks := dash, ""
+	// The remarks column only where an outlet has a remark: without it the
+	// table keeps the room and size wide enough for one line.
+	remarks := make([]string, len(list))
+	withRemarks := false
+	for i, o := range list {
+		own := ""
 		if oo := d.outlets[o.ID]; oo != nil {
-			size, remarks = orDash(oo.Size), oo.Remarks
+			own = oo.Remarks
+		}
+		remarks[i] = d.outletRemarks(own, o)
+		withRemarks = withRemarks || remarks[i] != ""
+	}
+	cols := []column{{head: "Tag", w: 1.3}, {head: "Room", w: 3.2}, {head: "Kind", w: 1.2},
+		{head: "Size", w: 1.3}, {head: "Design", w: 1.1, align: "R"}, {head: "As found", w: 1.15, align: "R"},
+		{head: "Final", w: 1.05, align: "R"}, {head: "% of design", w: 1, align: "R"}, {head: "Status", w: 1.5}}
+	if withRemarks {
+		cols[1].w, cols[3].w, cols[8].w = 2.2, 1.2, 1.7
+		cols = append(cols, column{head: "Remarks", w: 2.5})
+	}
+	t := d.newTable(cols...)
+	t.strong = func(col int, s string) bool { return (col == 8 && deficientLabel(s)) || (col == 0 && s == "Total") }
+	for i, o := range list {
+		size := dash
+		if oo := d.outlets[o.ID]; oo != nil {
+			size = orDash(oo.Size)
 		}
 		pctD := dash
 		if g := governing(o); g != nil && g.Tolerance != nil {
@@ -75,13 +91,15 @@ func (d *doc) outletTable(title string, list []*schema.OutletResult) {
 			}
 		}
 		t.row(o.Tag, orDash(o.Room), label(o.Kind), size, u.air(o.DesignFlow), stageFlow(u, o.AsFound),
-			stageFlow(u, o.Final), pctD, st, d.outletRemarks(remarks, o))
+			stageFlow(u, o.Final), pctD, st, remarks[i])
 	}
+	var partial []string
 	for _, k := range schema.OutletTotals(list) {
 		what := label(k.Kind) + ", " + d.count(k.Read) + " of " + d.count(k.Outlets) + " read"
 		note := ""
 		if k.Read > 0 && k.Read < k.Outlets {
 			note = "% of the design of those read (" + u.airU(k.DesignRead) + ")"
+			partial = append(partial, label(k.Kind)+" total: "+note)
 		}
 		af, fin := dash, dash
 		if k.AsFoundRead > 0 {
@@ -93,6 +111,9 @@ func (d *doc) outletTable(title string, list []*schema.OutletResult) {
 		t.row("Total", what, "", "", u.air(k.Design), af, fin, u.pctP(k.PercentOfDesign), "", note)
 	}
 	t.end()
+	if !withRemarks {
+		d.notes(noteGroup{"Note", partial})
+	}
 	for _, o := range list {
 		d.itemNotes(o.Tag, nil, nil, nil, o.Errors)
 	}
