@@ -218,8 +218,11 @@ func (d *doc) psychroChart(ct *schema.CapacityTestResult) {
 				f := (wTop - c.HumRatio[j]) / (c.HumRatio[j+1] - c.HumRatio[j])
 				t += f * (c.DryBulb[j+1] - c.DryBulb[j])
 			}
+			// Above the frame; else inside, just right of the curve.
 			lx, ly := px(t)-w/2, y0-0.8
 			if lb.place(lx, ly-th, w, th) {
+				text(lx, ly, lbl)
+			} else if lx, ly = px(t)+0.8, y0+th+0.8; lb.place(lx, ly-th, w, th) {
 				text(lx, ly, lbl)
 			}
 			continue
