@@ -120,9 +120,53 @@ func (d *doc) psychroChart(ct *schema.CapacityTestResult) {
 	yl := "Humidity ratio (" + u.HumRatio + ")"
 	pdf.Text(x0+pw+chartRight-d.width(yl)-0.5, y0-1.5, yl)
 
-	// Curves, clipped to the plot.
+	// Obstacles for the labels: the axis title above the scale, and the
+	// states with their letters, placed first so that no curve label covers them.
+	lb := &labels{minX: x0 - 1, maxX: x0 + pw + chartRight, minY: y0 - chartTop, maxY: y0 + ph}
+	d.font(famSans, "", sizeSmall)
+	lb.add(x0+pw+chartRight-d.width(yl)-0.5, y0-1.5-d.lineH(sizeSmall)*0.75, d.width(yl), d.lineH(sizeSmall)*0.75)
+	type mark struct {
+		s      *schema.AirStateResult
+		name   string
+		x, y   float64
+		lx, ly float64
+	}
+	var marks []mark
+	d.font(famSans, "B", sizeSmall)
+	for _, s := range states {
+		m := mark{s: s, name: "L", x: px(s.DryBulb), y: py(s.HumRatio)}
+		if s == ct.Enter {
+			m.name = "E"
+		}
+		// The letter goes on the side away from the other state, off the line.
+		m.lx, m.ly = m.x+1.6, m.y-1.4
+		for _, o := range states {
+			if o != s && o.DryBulb > s.DryBulb {
+				m.lx = m.x - 1.6 - d.width(m.name)
+			}
+		}
+		lb.add(m.x-1.3, m.y-1.3, 2.6, 2.6)
+		lb.add(m.lx, m.ly-d.lineH(sizeSmall)*0.75, d.width(m.name), d.lineH(sizeSmall)*0.75)
+		marks = append(marks, m)
+	}
+
+	// Curves, clipped to the plot: wet-bulb lines dashed under the relative
+	// humidity curves.
+	wbLines, wbErr := measure.PsychroWetBulbLines(d.unitSystem(), d.r.SitePressure, low, high)
 	pdf.ClipRect(x0, y0, pw, ph, false)
-	d.font(famSans, "", sizeTiny)
+	if wbErr == nil {
+		pdf.SetDrawColor(120, 150, 190)
+		pdf.SetLineWidth(0.12)
+		pdf.SetDashPattern([]float64{1.2, 0.8}, 0)
+		for _, l := range wbLines {
+			pdf.MoveTo(px(l.DryBulb[0]), py(l.HumRatio[0]))
+			for i := 1; i < len(l.DryBulb); i++ {
+				pdf.LineTo(px(l.DryBulb[i]), py(l.HumRatio[i]))
+			}
+			pdf.DrawPath("D")
+		}
+		pdf.SetDashPattern([]float64{}, 0)
+	}
 	for _, c := range curves {
 		if len(c.DryBulb) < 2 {
 			continue
@@ -139,22 +183,76 @@ func (d *doc) psychroChart(ct *schema.CapacityTestResult) {
 			pdf.LineTo(px(c.DryBulb[i]), py(c.HumRatio[i]))
 		}
 		pdf.DrawPath("D")
-		// Label each curve where it leaves the plot: at the top, or at the
-		// right-hand edge.
-		k := len(c.HumRatio) - 1
-		for k > 0 && c.HumRatio[k] > wTop*0.96 {
-			k--
+	}
+	pdf.ClipEnd()
+
+	// Curve labels: a relative humidity where its curve leaves the plot
+	// (above the frame for the top edge, inside for the right-hand one), a
+	// wet bulb just above saturation where its line starts. A label that
+	// would touch another, a state or the axis title is left out.
+	d.font(famSans, "", sizeTiny)
+	th := d.lineH(sizeTiny) * 0.75
+	// Each label on a white ground, so that no line runs through it.
+	text := func(x, y float64, s string) {
+		pdf.SetFillColor(255, 255, 255)
+		pdf.Rect(x-0.3, y-th, d.width(s)+0.6, th+0.5, "F")
+		pdf.Text(x, y, s)
+	}
+	pdf.SetTextColor(110, 110, 110)
+	for i := len(curves) - 1; i >= 0; i-- {
+		c := curves[i]
+		if len(c.DryBulb) < 2 {
+			continue
 		}
-		if k > 0 && c.HumRatio[k] > wTop*0.04 {
-			lbl := u.n(c.RelHum, 0) + " %"
-			lx, ly := px(c.DryBulb[k])-d.width(lbl)-0.8, py(c.HumRatio[k])+2
-			pdf.SetTextColor(110, 110, 110)
-			pdf.Text(lx, ly, lbl)
-			pdf.SetTextColor(0, 0, 0)
+		lbl := u.n(c.RelHum, 0) + " %"
+		w := d.width(lbl)
+		k := len(c.HumRatio) - 1
+		if c.HumRatio[k] > wTop {
+			// Leaves through the top: where it crosses wTop.
+			j := 0
+			for j < k && c.HumRatio[j+1] <= wTop {
+				j++
+			}
+			t := c.DryBulb[j]
+			if j < k {
+				f := (wTop - c.HumRatio[j]) / (c.HumRatio[j+1] - c.HumRatio[j])
+				t += f * (c.DryBulb[j+1] - c.DryBulb[j])
+			}
+			// Above the frame; else inside, just right of the curve.
+			lx, ly := px(t)-w/2, y0-0.8
+			if lb.place(lx, ly-th, w, th) {
+				text(lx, ly, lbl)
+			} else if lx, ly = px(t)+0.8, y0+th+0.8; lb.place(lx, ly-th, w, th) {
+				text(lx, ly, lbl)
+			}
+			continue
+		}
+		if c.HumRatio[k] < wTop*0.04 {
+			continue
+		}
+		lx, ly := x0+pw-w-0.8, py(c.HumRatio[k])+2
+		if lb.place(lx, ly-th, w, th) {
+			text(lx, ly, lbl)
 		}
 	}
+	if wbErr == nil {
+		pdf.SetTextColor(70, 100, 150)
+		for _, l := range wbLines {
+			if l.HumRatio[0] > wTop*0.97 {
+				continue
+			}
+			lbl := u.n(l.WetBulb, 0)
+			w := d.width(lbl)
+			lx, ly := px(l.DryBulb[0])-w-0.6, py(l.HumRatio[0])-0.6
+			if lx >= x0 && lb.place(lx, ly-th, w, th) {
+				text(lx, ly, lbl)
+			}
+		}
+	}
+	pdf.SetTextColor(0, 0, 0)
 
 	// The process: entering to leaving, with an arrowhead at the leaving state.
+	pdf.ClipRect(x0, y0, pw, ph, false)
 	if ct.Enter != nil && ct.Leave != nil {
 		ex, ey := px(ct.Enter.DryBulb), py(ct.Enter.HumRatio)
 		lx, ly := px(ct.Leave.DryBulb), py(ct.Leave.HumRatio)
@@ -170,26 +268,16 @@ func (d *doc) psychroChart(ct *schema.CapacityTestResult) {
 		}
 	}
 	pdf.SetLineWidth(0.3)
-	for _, s := range states {
-		x, y := px(s.DryBulb), py(s.HumRatio)
-		name := "L"
-		if s == ct.Enter {
-			name = "E"
+	for _, m := range marks {
+		if m.s == ct.Enter {
 			pdf.SetFillColor(0, 0, 0)
 		} else {
 			pdf.SetFillColor(255, 255, 255)
 		}
 		pdf.SetDrawColor(0, 0, 0)
-		pdf.Circle(x, y, 1.1, "FD")
+		pdf.Circle(m.x, m.y, 1.1, "FD")
 		d.font(famSans, "B", sizeSmall)
-		// The label goes on the side away from the other state, off the line.
-		lx := x + 1.6
-		for _, o := range states {
-			if o != s && o.DryBulb > s.DryBulb {
-				lx = x - 1.6 - d.width(name)
-			}
-		}
-		pdf.Text(lx, y-1.4, name)
+		pdf.Text(m.lx, m.ly, m.name)
 	}
 	pdf.ClipEnd()
 	pdf.SetFillColor(255, 255, 255)
@@ -205,9 +293,42 @@ func (d *doc) psychroChart(ct *schema.CapacityTestResult) {
 			u.humRatioU(s.HumRatio))
 	}
 	cap := "Psychrometric chart of " + ct.Tag + " at " + d.u.barometricU(d.r.SitePressure) +
-		" (the site pressure); curves of constant relative humidity 10 % apart, saturation in bold. "
+		" (the site pressure); curves of constant relative humidity 10 % apart, saturation in bold"
+	if wbErr == nil {
+		every := "5 °F"
+		if u.si {
+			every = "2 °C"
+		}
+		cap += "; dashed lines of constant wet bulb every " + every + ", each labelled where it meets saturation"
+	}
+	cap += ". "
 	for _, l := range legend {
 		cap += l + ". "
 	}
 	d.para(cap, "I", sizeSmall)
+}
+
+// labels keeps the boxes of what is already drawn on a chart, so that a
+// label that would overlap one, or leave the chart, is not drawn.
+type labels struct {
+	minX, maxX, minY, maxY float64
+	boxes                  [][4]float64 // x, y, w, h in mm
+}
+
+func (l *labels) add(x, y, w, h float64) { l.boxes = append(l.boxes, [4]float64{x, y, w, h}) }
+
+// place adds the box and says true if it fits inside the chart and clears
+// every box placed before by a small gap.
+func (l *labels) place(x, y, w, h float64) bool {
+	const gap = 0.5
+	if x < l.minX || x+w > l.maxX || y < l.minY || y+h > l.maxY {
+		return false
+	}
+	for _, b := range l.boxes {
+		if x < b[0]+b[2]+gap && b[0] < x+w+gap && y < b[1]+b[3]+gap && b[1] < y+h+gap {
+			return false
+		}
+	}
+	l.add(x, y, w, h)
+	return true
 }

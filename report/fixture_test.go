@@ -171,7 +171,8 @@ func demoPlan(tb testing.TB, now time.Time) *plan {
 	elev := 1120.0
 	p := newPlan(schema.Job{Name: "Fixture: Hollin Lane Library and Health Centre", SiteAddress: "4 Hollin Lane, Wendmoor (fictional)",
 		Client: "Wendmoor Borough (fictional)", Engineer: "Fixture engineer of record", Contractor: "Fixture mechanical contractor",
-		TABFirm: "Fixture balancing crew", Units: "ip", Elevation: &elev})
+		TABFirm: "Fixture balancing crew", Units: "ip", Elevation: &elev, ProjectNumber: "HL-2025-014",
+		Remarks: "Level 2 ceiling closed before the final readings"})
 	p.instrumentsFor(now)
 	day1, day2 := now.Add(-50*time.Hour), now.Add(-26*time.Hour)
 	rated := func(cfm, oa, rpm float64) schema.SystemDesign {

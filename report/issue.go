@@ -40,6 +40,8 @@ func Issue(ctx context.Context, db *schema.DB, a schema.Actor, in Input, s Signe
 	if s.Reason == "" {
 		s.Reason = fmt.Sprintf("Test and balance report, revision %d, of %s", in.Revision, in.Snapshot.Job.Name)
 	}
+	// The stored copy is the signed one: no preliminary stamp.
+	in.Issued = true
 	var buf bytes.Buffer
 	if err := Render(&buf, in); err != nil {
 		return schema.Report{}, nil, err

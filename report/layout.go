@@ -172,6 +172,7 @@ func (d *doc) newPage() {
 
 // header is the running head of every page but the cover.
 func (d *doc) header() {
+	d.stamp()
 	if d.pdf.PageNo() == 1 {
 		return
 	}
@@ -179,7 +180,7 @@ func (d *doc) header() {
 	d.font(famSans, "", sizeSmall)
 	half := d.contentW()/2 - 2
 	d.pdf.SetXY(d.left(), headerY)
-	d.pdf.CellFormat(half, 4, d.fit(d.s.Job.Name, half), "", 0, "L", false, 0, "")
+	d.pdf.CellFormat(half, 4, d.fit(d.jobLine(), half), "", 0, "L", false, 0, "")
 	d.pdf.SetXY(d.left()+half+4, headerY)
 	d.pdf.CellFormat(half, 4, d.fit(d.section, half), "", 0, "R", false, 0, "")
 	d.pdf.SetDrawColor(160, 160, 160)
@@ -200,7 +201,7 @@ func (d *doc) footer(last bool) {
 	d.pdf.SetLineWidth(0.2)
 	d.pdf.Line(d.left(), y-1, d.pageW-marginSide, y-1)
 	left := d.revisionLabel() + " · generated " + d.dateTime(d.in.Generated)
-	if d.in.Signoff == nil {
+	if d.preliminary() {
 		left += " · not signed"
 	}
 	pageW := 30.0
@@ -233,6 +234,7 @@ func (d *doc) heading(level int, title string) {
 		}
 		d.font(famSans, "B", sizeH1)
 		d.pdf.Bookmark(title, 0, -1)
+		d.tocAdd(title)
 		d.textLines(d.wrap(title, d.contentW()), sizeH1, "L")
 		d.setY(d.y() + 2)
 	default:

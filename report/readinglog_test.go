@@ -8,7 +8,9 @@ import (
 )
 
 // The reading log keeps corrected and voided readings on record, each with
-// what became of it, and counts every reading.
+// what became of it: the correction that superseded it, the void and its
+// reason, or the later reading that counts instead; a confirmed reading and
+// a reading's remark are shown beside it.
 func TestRenderReadingLog(t *testing.T) {
 	needTool(t, "pdftotext", "poppler-utils")
 	p := newPlan(schema.Job{Name: "Log test", Units: "ip"})
@@ -21,23 +23,40 @@ func TestRenderReadingLog(t *testing.T) {
 	p.read(schema.SubjectOutlet, out, "flow", 0, 257, schema.UnitCFM, schema.StageFinal, "", at.Add(120e9))
 	p.readings = append(p.readings, schema.Reading{ID: schema.NewID(), JobID: p.job.ID, SubjectKind: schema.SubjectOutlet,
 		SubjectID: out, Quantity: "flow", Unit: schema.UnitCFM, Stage: schema.StageFinal, Technician: "Fixture tech",
-		TakenAt: at.Add(180e9), Void: true, Supersedes: p.readings[2].ID})
-	path, _ := render(t, inputFor(t, p.memory(), fixtureNow))
-	layout := pdfText(t, path, "layout")
-	if !strings.Contains(norm(layout), "All 4 readings as entered") {
+		TakenAt: at.Add(180e9), Void: true, Supersedes: p.readings[2].ID, Note: "hood slipped off the diffuser"})
+	// A confirmed far-off final reading with a remark, and an earlier one
+	// stored after it, which does not count.
+	p.read(schema.SubjectOutlet, out, "flow", 0, 1250, schema.UnitCFM, schema.StageFinal, "", at.Add(240e9))
+	p.readings[4].Confirmed, p.readings[4].Note = true, "damper wide open"
+	p.read(schema.SubjectOutlet, out, "flow", 0, 280, schema.UnitCFM, schema.StageFinal, "", at.Add(200e9))
+	in := inputFor(t, p.memory(), fixtureNow)
+	path, _ := render(t, in)
+	raw := norm(pdfText(t, path, "raw"))
+	if !strings.Contains(raw, "All 6 readings as entered") {
 		t.Errorf("no reading count in the log")
 	}
-	for _, want := range []struct{ value, status string }{
-		{"301 cfm", "corrected"}, {"312 cfm", "counts"}, {"257 cfm", "voided"}, {"final —", "void"},
+	when := func(k int) string {
+		return p.readings[k].TakenAt.In(in.Generated.Location()).Format("2006-01-02 15:04")
+	}
+	for _, want := range []string{
+		"S-701 flow as found 301 cfm — Fixture tech superseded by the correction of " + when(1) + " (312 cfm)",
+		"312 cfm — Fixture tech counts; corrects the reading of " + when(0) + " (301 cfm)",
+		"257 cfm — Fixture tech voided on " + when(3) + ": hood slipped off the diffuser",
+		"final — — Fixture tech void: withdraws the reading of " + when(2) + " (257 cfm); reason: hood slipped off the diffuser",
+		"1,250 cfm — Fixture tech counts (latest of 2); confirmed far from design or its neighbours; remark: damper wide open",
+		"280 cfm — Fixture tech does not count: the reading of " + when(4) + " (1,250 cfm) is later",
 	} {
-		found := false
-		for _, row := range rowsWith(layout, "S-701") {
-			if strings.Contains(row, want.value) && strings.HasSuffix(row, want.status) {
-				found = true
-			}
+		if !strings.Contains(raw, want) {
+			t.Errorf("the log lacks %q", want)
 		}
-		if !found {
-			t.Errorf("no log row of S-701 with %q ending %q; rows:\n%s", want.value, want.status, strings.Join(rowsWith(layout, "S-701"), "\n"))
+	}
+	// The results agree on which reading counts: the confirmed 1,250 cfm.
+	for _, o := range in.Results.Outlets {
+		if o.Final == nil || o.Final.Reading != 1250 {
+			t.Errorf("results count another final reading: %+v", o.Final)
 		}
+	}
+	if t.Failed() {
+		t.Logf("log text: %s", raw[strings.Index(raw, "All 6 readings"):])
 	}
 }

@@ -32,6 +32,10 @@ type Input struct {
 	// Signoff is the signer's page; nil renders an unsigned report with lines
 	// to sign on.
 	Signoff *Signoff
+	// Issued says this rendering is the revision being signed and stored
+	// (Issue sets it). While it is false every page carries the stamp
+	// "PRELIMINARY — not signed", whoever is named in Signoff.
+	Issued bool
 	// Generated is the report's clock: its date on every page, the PDF's
 	// creation and modification dates, and the time zone all times print in.
 	// The same Input with the same Generated gives the same bytes.
@@ -57,8 +61,11 @@ type Signoff struct {
 	Name          string
 	Certification string // certification or licence number
 	Organisation  string
-	SignedAt      time.Time
-	SignaturePNG  []byte // the drawn signature; nil leaves a line to sign on
+	// Statement is the wording the signer certifies; empty prints
+	// DefaultStatement.
+	Statement    string
+	SignedAt     time.Time
+	SignaturePNG []byte // the drawn signature; nil leaves a line to sign on
 }
 
 // Limits on a drawn signature, so that a huge image cannot blow up a report.
@@ -169,7 +176,9 @@ type doc struct {
 	u            units
 	loc          *time.Location
 	pageW, pageH float64
-	section      string // the running header's right side
+	section      string     // the running header's right side
+	tocPages     []int      // the contents pages, reserved after the cover
+	toc          []tocEntry // the sections laid out so far
 
 	// Design records by ID, for what results do not repeat (sizes, design
 	// and nameplate data).
@@ -179,6 +188,8 @@ type doc struct {
 	captests  map[string]*schema.CapacityTest
 	waters    map[string]*schema.WaterTest
 	insts     map[string]*schema.Instrument
+	readings  map[string]*schema.Reading
+	notesBy   map[string][]string // reading notes by subject, built on first use
 	// Results by ID.
 	rOutlets   map[string]*schema.OutletResult
 	rTraverses map[string]*schema.TraverseResult
@@ -229,6 +240,7 @@ func (d *doc) index() {
 	d.captests = byID(s.CapacityTests, func(x *schema.CapacityTest) string { return x.ID })
 	d.waters = byID(s.WaterTests, func(x *schema.WaterTest) string { return x.ID })
 	d.insts = byID(s.Instruments, func(x *schema.Instrument) string { return x.ID })
+	d.readings = byID(s.Readings, func(x *schema.Reading) string { return x.ID })
 	d.rOutlets = byID(r.Outlets, func(x *schema.OutletResult) string { return x.ID })
 	d.rTraverses = byID(r.Traverses, func(x *schema.TraverseResult) string { return x.ID })
 	d.rCaps = byID(r.CapacityTests, func(x *schema.CapacityTestResult) string { return x.ID })
@@ -236,7 +248,7 @@ func (d *doc) index() {
 
 // parts lists the report's parts in reading order, one per progress step.
 func (d *doc) parts() []func() {
-	p := []func(){d.cover, d.basis, d.findings}
+	p := []func(){d.cover, d.contentsReserve, d.basis, d.findings}
 	for i := range d.r.Systems {
 		sr := &d.r.Systems[i]
 		p = append(p, func() { d.system(sr) })
@@ -246,7 +258,7 @@ func (d *doc) parts() []func() {
 		tr := &d.r.Traverses[i]
 		p = append(p, func() { d.traverse(tr) })
 	}
-	p = append(p, d.waterTests, d.instruments, d.readingLog, d.history, d.signoff)
+	p = append(p, d.waterTests, d.instruments, d.readingLog, d.history, d.signoff, d.contentsFill)
 	return p
 }
 

@@ -154,7 +154,7 @@ func TestRenderDemoJob(t *testing.T) {
 		for _, w := range []string{
 			"Delivered total " + norm(pm(u.power(ct.Capacity.Total), u.powerU(ct.Uncertainty.Total))),
 			"Delivered sensible " + norm(pm(u.power(ct.Capacity.Sensible), u.powerU(ct.Uncertainty.Sensible))),
-			norm(u.powerU(ct.Expected.Total)) + " total",
+			norm(u.capU(ct.Expected.Total)) + " total",
 			norm(u.pct(*ct.PercentOfExpected)) + " of expected: " + status(ct.Status),
 			"Psychrometric chart of " + ct.Tag,
 		} {
@@ -344,6 +344,7 @@ func TestRenderSignoffAndHistory(t *testing.T) {
 	in.Revision = 2
 	in.History = []Revision{{Number: 1, IssuedAt: fixtureNow.Add(-72 * time.Hour), Signer: "Ada Quill",
 		SnapshotSHA256: strings.Repeat("ab12", 16), Note: "first issue"}}
+	in.Issued = true
 	in.Signoff = &Signoff{Name: "Ada Quill", Certification: "TAB-0042 (fictional)", Organisation: "Fixture balancing crew",
 		SignedAt: fixtureNow, SignaturePNG: signaturePNG(t)}
 	path, _ := render(t, in)
@@ -374,9 +375,10 @@ func TestRenderProgress(t *testing.T) {
 	if err := Render(&b, in); err != nil {
 		t.Fatal(err)
 	}
-	// Cover, basis, findings, 3 systems, outlets, 2 traverses, water,
-	// instruments, reading log, history, sign-off, and the output.
-	const want = 15
+	// Cover, contents, basis, findings, 3 systems, outlets, 2 traverses, water,
+	// instruments, reading log, history, sign-off, the contents' page
+	// numbers, and the output.
+	const want = 17
 	if len(calls) != want {
 		t.Fatalf("progress called %d times, want %d: %v", len(calls), want, calls)
 	}

@@ -1,14 +1,8 @@
 package report
 
 import (
-	"bytes"
 	"fmt"
-	"image"
-	"image/draw"
-	"image/png"
 	"strings"
-
-	"github.com/jung-kurt/gofpdf"
 
 	"fieldtab/measure"
 	"fieldtab/schema"
@@ -36,20 +30,21 @@ func (d *doc) cover() {
 	d.setY(d.y() + 4)
 
 	signed := "Not signed: this copy is a preview, not an issued report."
-	if s := d.in.Signoff; s != nil {
+	if s := d.in.Signoff; s != nil && !d.preliminary() {
 		signed = "Signed by " + s.Name + " on " + d.dateTime(s.SignedAt)
 	}
-	d.pairs(48,
-		[2]string{"Client or owner", orDash(j.Client)},
-		[2]string{"Engineer of record", orDash(j.Engineer)},
-		[2]string{"Mechanical contractor", orDash(j.Contractor)},
-		[2]string{"Test and balance firm", orDash(j.TABFirm)},
-		[2]string{"Revision", itoa(d.in.Revision)},
-		[2]string{"Report date", d.dateTime(d.in.Generated) + " (" + zoneName(d.in.Generated) + "; all times in this report are in this zone)"},
-		[2]string{"Calibrations judged on", orDash(d.r.Today)},
-		[2]string{"Units", unitSystemName(d.u.si)},
-		[2]string{"Signature", signed},
-	)
+	d.pairs(48, append([][2]string{
+		{"Project number", orDash(j.ProjectNumber)},
+		{"Client or owner", orDash(j.Client)},
+		{"Engineer of record", orDash(j.Engineer)},
+		{"Mechanical contractor", orDash(j.Contractor)},
+		{"Test and balance firm", orDash(j.TABFirm)},
+		{"Revision", itoa(d.in.Revision)},
+		{"Report date", d.dateTime(d.in.Generated) + " (" + zoneName(d.in.Generated) + "; all times in this report are in this zone)"},
+		{"Calibrations judged on", orDash(d.r.Today)},
+		{"Units", unitSystemName(d.u.si)},
+		{"Signature", signed},
+	}, remarkPair(j.Remarks)...)...)
 	d.setY(d.y() + 4)
 	d.font(famSans, "B", sizeH2)
 	d.textLines([]string{"Summary"}, sizeH2, "L")
@@ -94,13 +89,13 @@ func (d *doc) summary() [][2]string {
 	}
 	n := len(r.Outlets)
 	rows := [][2]string{
-		{"Outlets within tolerance", fmt.Sprintf("%d of %d", count["within"], n)},
-		{"Outlets out of tolerance", fmt.Sprintf("%d (%d low, %d high)", count["low"]+count["high"], count["low"], count["high"])},
-		{"Outlets the instrument's accuracy cannot decide", itoa(count["undetermined"])},
-		{"Outlets not read", itoa(count[schema.ResultNotRead])},
+		{"Outlets within tolerance", fmt.Sprintf("%s of %s", d.count(count["within"]), d.count(n))},
+		{"Outlets out of tolerance", fmt.Sprintf("%s (%s low, %s high)", d.count(count["low"]+count["high"]), d.count(count["low"]), d.count(count["high"]))},
+		{"Outlets the instrument's accuracy cannot decide", d.count(count["undetermined"])},
+		{"Outlets not read", d.count(count[schema.ResultNotRead])},
 	}
 	if c := count[schema.ResultError]; c > 0 {
-		rows = append(rows, [2]string{"Outlets whose flow could not be computed", itoa(c)})
+		rows = append(rows, [2]string{"Outlets whose flow could not be computed", d.count(c)})
 	}
 	within, judged := 0, 0
 	for _, s := range r.Systems {
@@ -111,7 +106,7 @@ func (d *doc) summary() [][2]string {
 			}
 		}
 	}
-	rows = append(rows, [2]string{"Systems with airflow within the fan tolerance", fmt.Sprintf("%d of %d with a measured airflow", within, judged)})
+	rows = append(rows, [2]string{"Systems with airflow within the fan tolerance", fmt.Sprintf("%s of %s with a measured airflow", d.count(within), d.count(judged))})
 	// A system meets capacity when every capacity test on it meets.
 	tested, meets := map[string]bool{}, map[string]bool{}
 	var order []string
@@ -133,7 +128,7 @@ func (d *doc) summary() [][2]string {
 			m++
 		}
 	}
-	rows = append(rows, [2]string{"Systems meeting capacity", fmt.Sprintf("%d of %d with a capacity test", m, len(order))})
+	rows = append(rows, [2]string{"Systems meeting capacity", fmt.Sprintf("%s of %s with a capacity test", d.count(m), d.count(len(order)))})
 	if len(r.CapacityTests) > 0 {
 		var parts []string
 		for _, st := range []string{schema.ResultMeets, schema.ResultShort, "undetermined", schema.ResultNoExpected,
@@ -143,7 +138,7 @@ func (d *doc) summary() [][2]string {
 				if st == schema.ResultMeets {
 					word = "meet"
 				}
-				parts = append(parts, itoa(c)+" "+word)
+				parts = append(parts, d.count(c)+" "+word)
 			}
 		}
 		rows = append(rows, [2]string{"Capacity tests", strings.Join(parts, ", ")})
@@ -155,7 +150,7 @@ func (d *doc) summary() [][2]string {
 		}
 	}
 	if len(r.WaterTests) > 0 {
-		rows = append(rows, [2]string{"Water flows within tolerance", fmt.Sprintf("%d of %d", wIn, len(r.WaterTests))})
+		rows = append(rows, [2]string{"Water flows within tolerance", fmt.Sprintf("%s of %s", d.count(wIn), d.count(len(r.WaterTests)))})
 	}
 	over := 0
 	for _, in := range r.Instruments {
@@ -164,8 +159,8 @@ func (d *doc) summary() [][2]string {
 		}
 	}
 	rows = append(rows,
-		[2]string{"Instruments past their calibration due date", fmt.Sprintf("%d of %d", over, len(r.Instruments))},
-		[2]string{"Findings (listed after the basis)", itoa(len(r.Findings))})
+		[2]string{"Instruments past their calibration due date", fmt.Sprintf("%s of %s", d.count(over), d.count(len(r.Instruments)))},
+		[2]string{"Findings (listed after the basis)", d.count(len(r.Findings))})
 	return rows
 }
 
@@ -298,8 +293,7 @@ func (d *doc) findings() {
 	d.para("Every deficiency the readings show, in the order of the sections that follow: what is out of tolerance, "+
 		"capacity short of expected, motors and fans off their limits or design, conflicting readings for the lead to resolve, "+
 		"water that contradicts its test's mode, readings taken with no instrument or with one past its calibration date, "+
-		"and outlets never read. Thresholds marked common practice are the trade's, not a standard's: the project "+
-		"specification governs.", "", sizeBody)
+		"and outlets never read. "+d.limitsNote()+" The project specification governs.", "", sizeBody)
 	t := d.newTable(column{head: "#", w: 0.5, align: "R"}, column{head: "Kind", w: 2.2},
 		column{head: "Where", w: 3}, column{head: "What", w: 7})
 	n := 0
@@ -432,7 +426,7 @@ func (d *doc) waterTests() {
 		w := &d.r.WaterTests[i]
 		water, ctTag, air, diff, note := dash, dash, dash, dash, ""
 		if w.Capacity != nil {
-			water = u.power(w.Capacity.Capacity) + " " + w.Capacity.Process
+			water = u.power(w.Capacity.Capacity) + " (" + u.capAlt(w.Capacity.Capacity) + ") " + w.Capacity.Process
 		}
 		if wt := d.waters[w.ID]; wt != nil && wt.CapacityTest != "" {
 			if c := d.rCaps[wt.CapacityTest]; c != nil {
@@ -440,7 +434,7 @@ func (d *doc) waterTests() {
 			}
 		}
 		if a := w.AirSide; a != nil {
-			air, diff, note = u.power(a.AirTotal), signedPct(u, a.DifferencePct), a.Note
+			air, diff, note = u.power(a.AirTotal)+" ("+u.capAlt(a.AirTotal)+")", signedPct(u, a.DifferencePct), a.Note
 		}
 		if note == "" && len(w.Notes) > 0 {
 			note = strings.Join(w.Notes, "; ")
@@ -454,6 +448,9 @@ func (d *doc) waterTests() {
 	for i := range d.r.WaterTests {
 		w := &d.r.WaterTests[i]
 		d.itemNotes(w.Tag, w.Missing, nil, w.Flags, w.Errors)
+		if wt := d.waters[w.ID]; wt != nil {
+			d.remarks(w.Tag, wt.Remarks, schema.SubjectWaterTest, w.ID)
+		}
 	}
 }
 
@@ -539,6 +536,9 @@ func (d *doc) instruments() {
 	t.end()
 	for _, ir := range d.r.Instruments {
 		d.itemNotes(ir.Tag, nil, nil, nil, ir.Errors)
+		if in := d.insts[ir.ID]; in != nil {
+			d.remarks(in.Tag, in.Remarks, "instrument", in.ID)
+		}
 	}
 }
 
@@ -589,87 +589,6 @@ func groupHex(h string) string {
 		parts, h = append(parts, h[:16]), h[16:]
 	}
 	return strings.Join(append(parts, h), " ")
-}
-
-// ---- sign-off ----
-
-func (d *doc) signoff() {
-	d.heading(0, "Sign-off")
-	d.para("The readings in this report were taken by the crew on the dates recorded, with the instruments listed, and "+
-		"every figure was computed from them by the methods given in the basis. The report records measured conditions; "+
-		"it defers to the project specification, local codes and the engineer of record.", "", sizeBody)
-	d.setY(d.y() + 6)
-	s := d.in.Signoff
-	line := func(lbl, value string) {
-		h := 9.0
-		d.ensure(h)
-		y := d.y()
-		d.font(famSans, "B", sizeBody)
-		d.pdf.SetXY(d.left(), y+2)
-		d.pdf.CellFormat(40, 6, lbl, "", 0, "L", false, 0, "")
-		d.font(famSans, "", sizeH2)
-		d.pdf.SetXY(d.left()+40, y+2)
-		d.pdf.CellFormat(110, 6, d.fit(value, 108), "", 0, "L", false, 0, "")
-		d.pdf.SetDrawColor(120, 120, 120)
-		d.pdf.SetLineWidth(0.2)
-		d.pdf.Line(d.left()+40, y+8, d.left()+150, y+8)
-		d.setY(y + h)
-	}
-	if s == nil {
-		line("Name", "")
-		line("Certification no.", "")
-		line("Organisation", "")
-		line("Date", "")
-	} else {
-		line("Name", s.Name)
-		line("Certification no.", orDash(s.Certification))
-		line("Organisation", orDash(s.Organisation))
-		line("Date", d.dateTime(s.SignedAt))
-	}
-	d.setY(d.y() + 6)
-	d.ensure(40)
-	y := d.y()
-	d.font(famSans, "B", sizeBody)
-	d.pdf.SetXY(d.left(), y+24)
-	d.pdf.CellFormat(40, 6, "Signature", "", 0, "L", false, 0, "")
-	boxW, boxH := 110.0, 30.0
-	if s != nil && s.SignaturePNG != nil {
-		d.signatureImage(s.SignaturePNG, d.left()+40, y, boxW, boxH)
-	}
-	d.pdf.SetDrawColor(60, 60, 60)
-	d.pdf.SetLineWidth(0.3)
-	d.pdf.Line(d.left()+40, y+boxH, d.left()+40+boxW, y+boxH)
-	d.setY(y + boxH + 4)
-	if s == nil {
-		d.para("Not signed: a preview. An issued revision carries the signer's drawn signature here and a digital signature on the file.",
-			"I", sizeSmall)
-	}
-}
-
-// signatureImage places the drawn signature inside the box, keeping its
-// aspect ratio, sitting on the signature line. The PNG (vetted by check) is
-// redrawn as 8-bit RGBA first: gofpdf reads neither interlaced nor 16-bit
-// PNGs, and a canvas may give either.
-func (d *doc) signatureImage(b []byte, x, y, w, h float64) {
-	src, err := png.Decode(bytes.NewReader(b))
-	if err != nil {
-		d.pdf.SetError(schema.Errorf(schema.Invalid, "signoff.signature_png", "cannot be read: %v", err))
-		return
-	}
-	img := image.NewNRGBA(src.Bounds())
-	draw.Draw(img, img.Bounds(), src, src.Bounds().Min, draw.Src)
-	var plain bytes.Buffer
-	if err := png.Encode(&plain, img); err != nil {
-		d.pdf.SetError(fmt.Errorf("signature: %w", err))
-		return
-	}
-	opt := gofpdf.ImageOptions{ImageType: "PNG"}
-	d.pdf.RegisterImageOptionsReader("signature", opt, &plain)
-	iw, ih := w, w*float64(img.Bounds().Dy())/float64(img.Bounds().Dx())
-	if ih > h {
-		iw, ih = h*float64(img.Bounds().Dx())/float64(img.Bounds().Dy()), h
-	}
-	d.pdf.ImageOptions("signature", x, y+h-ih, iw, ih, false, opt, 0, "")
 }
 
 // unitSystem is the measure unit system of the results.

@@ -19,7 +19,8 @@ func (d *doc) system(sr *schema.SystemResult) {
 	var design schema.SystemDesign
 	if sys != nil {
 		design = sys.Design
-		d.pairs(36, [2]string{"Kind", label(sys.Kind)}, [2]string{"Location", orDash(sys.Location)})
+		d.pairs(36, append([][2]string{{"Kind", label(sys.Kind)}, {"Location", orDash(sys.Location)}}, remarkPair(sys.Remarks)...)...)
+		d.nameplate(sys)
 	}
 
 	d.heading(1, "Airflow")
@@ -109,6 +110,7 @@ func (d *doc) system(sr *schema.SystemResult) {
 	d.fanAndMotor(sr, design)
 	d.notes(noteGroup{sr.Tag, sr.Notes})
 	d.itemNotes(sr.Tag, nil, nil, sr.Flags, sr.Errors)
+	d.remarks(sr.Tag, "", schema.SubjectSystem, sr.ID)
 
 	for i := range d.r.CapacityTests {
 		if ct := &d.r.CapacityTests[i]; ct.SystemID == sr.ID {
@@ -304,8 +306,6 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 	}
 	t.end()
 
-	basis := map[string]string{"standard": "standard air (" + standardAir(u.si) + ")", "enter": "density at the entering state",
-		"leave": "density at the leaving state"}[ct.FlowBasis]
 	src := label(ct.FlowSource)
 	if c := d.captests[ct.ID]; c != nil && ct.FlowSource == "traverse" {
 		if tr := d.rTraverses[c.TraverseID]; tr != nil {
@@ -318,24 +318,21 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 	}
 	air := dash
 	if ct.Airflow != nil {
-		air = u.airU(*ct.Airflow) + " from " + src
-		if basis != "" {
-			air += ", mass flow on " + basis
-		}
+		air = u.flowOnBasis(*ct.Airflow, ct.FlowBasis) + ", from " + src
 	}
 	kv := [][2]string{{"Airflow", air}, {"Outdoor dry bulb", u.tempP(ct.OutdoorDB)}}
 	if c := ct.Capacity; c != nil {
 		unc := ct.Uncertainty
 		withU := func(v float64, du func(*schema.CapacityUncertainty) float64) string {
 			if unc == nil {
-				return u.powerU(v)
+				return u.capU(v)
 			}
-			return pm(u.power(v), u.powerU(du(unc)))
+			return u.capPM(v, du(unc))
 		}
 		kv = append(kv,
 			[2]string{"Delivered total", withU(c.Total, func(x *schema.CapacityUncertainty) float64 { return x.Total }) + " (" + c.Process + ")"},
 			[2]string{"Delivered sensible", withU(c.Sensible, func(x *schema.CapacityUncertainty) float64 { return x.Sensible })},
-			[2]string{"Latent", u.powerU(c.Latent)},
+			[2]string{"Latent", u.capU(c.Latent)},
 			[2]string{"Sensible heat ratio", u.n(c.SHR, 2)})
 		if unc != nil && len(unc.Omits) > 0 {
 			kv = append(kv, [2]string{"± leaves out", strings.Join(unc.Omits, ", ") + " (no accuracy on record)"})
@@ -346,9 +343,9 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 		if src == "" {
 			src = label(ex.Source)
 		}
-		exp := u.powerU(ex.Total) + " total"
+		exp := u.capU(ex.Total) + " total"
 		if ex.Sensible != nil {
-			exp += ", " + u.powerU(*ex.Sensible) + " sensible"
+			exp += ", " + u.capU(*ex.Sensible) + " sensible"
 		}
 		from := "from the " + src
 		if ex.Basis != "" {
@@ -370,7 +367,11 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 		verdict = u.pct(*ct.PercentOfExpected) + " of expected: " + verdict
 	}
 	kv = append(kv, [2]string{"Result", verdict})
+	if c := d.captests[ct.ID]; c != nil {
+		kv = append(kv, remarkPair(c.Remarks)...)
+	}
 	d.pairs(40, kv...)
 	d.itemNotes(ct.Tag, ct.Missing, ct.Warnings, ct.Flags, ct.Errors)
+	d.remarks(ct.Tag, "", schema.SubjectCapacityTest, ct.ID)
 	d.psychroChart(ct)
 }

@@ -35,12 +35,16 @@ func (d *doc) traverse(tr *schema.TraverseResult) {
 		kv = append(kv, [2]string{flowLabel, status(tr.Status)})
 	}
 	kv = append(kv, traverseStageRows(u, tr)...)
+	if tv != nil {
+		kv = append(kv, remarkPair(tv.Remarks)...)
+	}
 	d.pairs(32, kv...)
 	if tr.UncertaintyNote != "" {
 		d.para(tr.UncertaintyNote+".", "I", sizeSmall)
 	}
 	d.itemNotes(tr.Tag, nil, tr.Warnings, tr.Flags, tr.Errors)
 	d.traverseConflicts(tr)
+	d.remarks(tr.Tag, "", schema.SubjectTraverse, tr.ID)
 	if tv != nil && len(tr.Points) > 0 {
 		d.traverseDrawing(tv, tr)
 	}
@@ -80,6 +84,14 @@ func densityText(src string) string {
 	return label(src)
 }
 
+// portDir is the direction (x right, y down on the page) from the centre of
+// a round duct to the port of diameter k of n, as the field app draws it:
+// diameter 1 from the left-hand side, the next ones turning clockwise.
+func portDir(k, n int) (x, y float64) {
+	a := math.Pi + float64(k)*math.Pi/float64(n)
+	return math.Cos(a), math.Sin(a)
+}
+
 // traverseDrawing draws the duct section to scale with each point where the
 // probe tip goes and its velocity; ports are on the left-hand wall
 // (rectangular) or where each diameter meets the wall (round).
@@ -110,19 +122,16 @@ func (d *doc) traverseDrawing(tv *schema.Traverse, tr *schema.TraverseResult) {
 		pdf.SetLineWidth(0.1)
 		pdf.SetDrawColor(170, 170, 170)
 		for k := range n {
-			a := float64(k) * math.Pi / float64(n)
-			dx, dy := math.Cos(a), -math.Sin(a)
-			pdf.Line(cx-dx*r, cy-dy*r, cx+dx*r, cy+dy*r)
+			ux, uy := portDir(k, n)
+			pdf.Line(cx+ux*r, cy+uy*r, cx-ux*r, cy-uy*r)
 			// The port, where the probe enters.
 			lbl := "port " + itoa(k+1)
-			pdf.Text(cx-dx*(r+2)-d.width(lbl)*(0.5+0.5*dx), cy-dy*(r+2)+1, lbl)
+			pdf.Text(cx+ux*(r+2.5)-d.width(lbl)*(0.5-0.5*ux), cy+uy*(r+2.5)+1-uy*0.5, lbl)
 		}
 		for i, p := range tr.Points {
-			k := min(i/ppd, n-1)
-			a := float64(k) * math.Pi / float64(n)
-			dx, dy := math.Cos(a), -math.Sin(a)
-			s := p.Depth*sc - r // from the centre, along the diameter from its port
-			pts = append(pts, pt{cx + dx*s, cy + dy*s, p.Velocity})
+			ux, uy := portDir(min(i/ppd, n-1), n)
+			s := r - p.Depth*sc // from the centre towards the port; point 1 is nearest it
+			pts = append(pts, pt{cx + ux*s, cy + uy*s, p.Velocity})
 		}
 	case tv.Width > 0 && tv.Height > 0:
 		sc := math.Min(boxW/tv.Width, boxH/tv.Height)
@@ -191,7 +200,10 @@ func (d *doc) traverseDrawing(tv *schema.Traverse, tr *schema.TraverseResult) {
 	}
 	cap += "open circles are points not read."
 	if tv.Shape != "round" {
-		cap += " Ports are on the left-hand wall; depths run across the width from it."
+		cap += " Ports are on the left-hand wall, line 1 at the top; depths run across the width from it."
+	} else {
+		cap += " Port 1 is on the left, the others clockwise from it, as the field app shows them; point 1 of each " +
+			"diameter is nearest its port."
 	}
 	d.para(cap, "I", sizeSmall)
 }

@@ -431,6 +431,18 @@ func TestBrowserCapacity(t *testing.T) {
 			t.Errorf("chart states at %v and %v: want the entering air right of and above the leaving air", pos[0], pos[1])
 		}
 	}
+	// Wet-bulb lines from the server's chart, and no text on the chart over
+	// another (curve labels that would collide are left out).
+	if n := eval[int](p, q(chart)+".querySelectorAll('.pc-wb').length"); n < 5 {
+		t.Errorf("the chart has %d wet-bulb lines", n)
+	}
+	if clash := eval[[]string](p, "(() => { const ts = Array.from("+q(chart)+".querySelectorAll('text')), out = []; "+
+		"const bs = ts.map((e) => e.getBoundingClientRect()); "+
+		"for (let i = 0; i < bs.length; i++) for (let j = i + 1; j < bs.length; j++) { const a = bs[i], b = bs[j]; "+
+		"if (Math.min(a.right, b.right) - Math.max(a.left, b.left) > 1 && Math.min(a.bottom, b.bottom) - Math.max(a.top, b.top) > 1) "+
+		"out.push(ts[i].textContent + ' / ' + ts[j].textContent); } return out; })()"); len(clash) > 0 {
+		t.Errorf("chart labels overlap: %q", clash)
+	}
 	p.screenshots("capacity", chart)
 
 	var want []wantReading

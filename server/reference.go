@@ -50,6 +50,13 @@ type chartCurve struct {
 	Points [][2]float64 `json:"points"` // [dry bulb, humidity ratio]
 }
 
+// chartWetBulb is a line of constant wet bulb, from saturation down and
+// to the right.
+type chartWetBulb struct {
+	WetBulb float64      `json:"wet_bulb"`
+	Points  [][2]float64 `json:"points"` // [dry bulb, humidity ratio]
+}
+
 type chartView struct {
 	Units           string       `json:"units"`
 	Pressure        float64      `json:"pressure"`
@@ -60,6 +67,9 @@ type chartView struct {
 	High            float64      `json:"high"`
 	WMax            float64      `json:"w_max"` // top of the chart: saturation at High, at most 0.03
 	Curves          []chartCurve `json:"curves"`
+	// WetBulbLines every 5 °F or 2 °C; added after Curves, so older apps
+	// that do not know it draw as before.
+	WetBulbLines []chartWetBulb `json:"wet_bulb_lines"`
 }
 
 // handleChart answers the psychrometric chart's curves at the job's site
@@ -112,6 +122,19 @@ func (s *Server) handleChart(w http.ResponseWriter, r *http.Request) {
 			cv.Points[i] = [2]float64{c.DryBulb[i], c.HumRatio[i]}
 		}
 		view.Curves = append(view.Curves, cv)
+	}
+	lines, err := measure.PsychroWetBulbLines(u, pres, low, high)
+	if err != nil {
+		s.writeError(w, r, err)
+		return
+	}
+	view.WetBulbLines = make([]chartWetBulb, 0, len(lines))
+	for _, l := range lines {
+		wl := chartWetBulb{WetBulb: l.WetBulb, Points: make([][2]float64, len(l.DryBulb))}
+		for i := range l.DryBulb {
+			wl.Points[i] = [2]float64{l.DryBulb[i], l.HumRatio[i]}
+		}
+		view.WetBulbLines = append(view.WetBulbLines, wl)
 	}
 	sat := curves[len(curves)-1].HumRatio
 	view.WMax = math.Min(sat[len(sat)-1], 0.03)

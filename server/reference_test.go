@@ -52,6 +52,7 @@ func TestChartEndpoint(t *testing.T) {
 			Pressure, Low, High float64
 			WMax                float64 `json:"w_max"`
 			Curves              []chartCurve
+			WetBulbLines        []chartWetBulb `json:"wet_bulb_lines"`
 		}
 		r.decode(t, &c)
 		if c.Units != "ip" || c.PressureSource != "sea_level" || c.Low != 30 || c.High != 110 || len(c.Curves) != 10 || c.Pressure != 14.696 {
@@ -65,6 +66,19 @@ func TestChartEndpoint(t *testing.T) {
 		}
 		if c.WMax != 0.03 {
 			t.Errorf("w_max %v, want the 0.03 cap (Ws at 110 °F is above it)", c.WMax)
+		}
+		// Wet-bulb lines every 5 °F from 30 °F, each starting on saturation:
+		// PsychroLib 2.5.0 gives 0.0123253936896 lb/lb at 75 °F dry bulb,
+		// 67 °F wet bulb; the 65 °F line at 75 °F sits just below that.
+		if len(c.WetBulbLines) != 16 || c.WetBulbLines[0].WetBulb != 30 {
+			t.Fatalf("%d wet-bulb lines from %v", len(c.WetBulbLines), c.WetBulbLines)
+		}
+		l65 := c.WetBulbLines[7]
+		if l65.WetBulb != 65 || l65.Points[0][0] != 65 || l65.Points[10][0] != 75 {
+			t.Fatalf("the 65 °F line: %v", l65.Points[:11])
+		}
+		if w := l65.Points[10][1]; w >= 0.0123253936896 || w < 0.0105 {
+			t.Errorf("65 °F wet bulb at 75 °F: W %v, want a little below 0.01233 (the 67 °F state)", w)
 		}
 	})
 	t.Run("OKSiteElevation", func(t *testing.T) {

@@ -85,7 +85,8 @@ export function psychroChart(chartData, enter, leave, units) {
   const wDigits = Math.max(0, -Math.floor(Math.log10(wStep)));
   for (let w = 0; w <= wTop + 1e-12; w += wStep) {
     grid.appendChild(s('line', { x1: m.l, y1: y(w), x2: m.l + pw, y2: y(w) }));
-    grid.appendChild(s('text', { x: m.l + pw + 4, y: y(w) + 3.5, class: 'pc-tick' }, w.toFixed(wDigits)));
+    // No 0 on the right: it would sit on the last dry-bulb figure.
+    if (w > wStep / 2) grid.appendChild(s('text', { x: m.l + pw + 4, y: y(w) + 3.5, class: 'pc-tick' }, w.toFixed(wDigits)));
   }
   grid.appendChild(s('text', { x: m.l + pw / 2, y: H - 4, class: 'pc-axis', 'text-anchor': 'middle' }, `dry bulb, ${tUnit}`));
   grid.appendChild(s('text', {
@@ -95,9 +96,45 @@ export function psychroChart(chartData, enter, leave, units) {
   svg.appendChild(grid);
   svg.appendChild(s('rect', { x: m.l, y: m.t, width: pw, height: ph, class: 'pc-frame' }));
 
-  // RH curves, clipped to the plot; a label where each leaves it.
+  // Boxes already taken (the states and their names, the axis titles), so
+  // that a curve label that would overlap one is left out.
+  const taken = [];
+  const ok = (st) => st && Number.isFinite(st.dry_bulb) && Number.isFinite(st.hum_ratio);
+  const stateMarks = [];
+  for (const [st, name] of [[enter, 'entering'], [leave, 'leaving']]) {
+    if (!ok(st)) continue;
+    const cx = x(st.dry_bulb), cy = y(st.hum_ratio);
+    const right = cx < m.l + pw * 0.6;
+    const tx = right ? cx + 8 : cx - 8, ty = name === 'entering' ? cy - 8 : cy + 14;
+    const w = name.length * 13 * 0.62;
+    taken.push([cx - 7, cy - 7, 14, 14], [right ? tx : tx - w, ty - 11, w, 13]);
+    stateMarks.push({ st, name, cx, cy, tx, ty, right });
+  }
+  taken.push([m.l + pw / 2 - 40, H - 15, 80, 13], [W - 16, m.t, 14, ph]);
+  // place: true (and the box kept) when a label of width w, height h with
+  // its top-left at (lx, ly) stays in the drawing and clear of the others.
+  const place = (lx, ly, w, h) => {
+    if (lx < 0 || ly < 0 || lx + w > W || ly + h > H) return false;
+    for (const b of taken) if (lx < b[0] + b[2] + 1 && b[0] < lx + w + 1 && ly < b[1] + b[3] + 1 && b[1] < ly + h + 1) return false;
+    taken.push([lx, ly, w, h]);
+    return true;
+  };
+  const textW = (t, size) => t.length * size * 0.58;
+
+  // Wet-bulb lines (dashed) and RH curves, clipped to the plot; a label
+  // where each RH curve leaves it and where each wet-bulb line meets saturation.
   const curves = s('g', { 'clip-path': `url(#${clipId})` });
   const labels = s('g', { class: 'pc-labels' });
+  const wbLabels = [];
+  for (const l of chartData.wet_bulb_lines || []) {
+    const pts = (l.points || []).filter((p) => Number.isFinite(p[0]) && Number.isFinite(p[1]));
+    if (pts.length < 2) continue;
+    curves.appendChild(s('polyline', {
+      points: pts.map((p) => `${x(p[0]).toFixed(1)},${y(p[1]).toFixed(1)}`).join(' '),
+      class: 'pc-wb', 'data-wb': l.wet_bulb, fill: 'none', stroke: '#8ea3b8', 'stroke-width': 0.8, 'stroke-dasharray': '4 3',
+    }));
+    if (pts[0][1] <= wTop * 0.97) wbLabels.push([l.wet_bulb, pts[0]]);
+  }
   for (const c of chartData.curves || []) {
     const pts = (c.points || []).filter((p) => Number.isFinite(p[0]) && Number.isFinite(p[1]));
     if (pts.length < 2) continue;
@@ -109,8 +146,9 @@ export function psychroChart(chartData, enter, leave, units) {
     if (sat) {
       // Saturation: labelled on the curve a third of the way across, above it.
       const p = pts[Math.floor(pts.length / 3)];
-      if (p[1] <= wTop) {
-        labels.appendChild(s('text', { x: x(p[0]) - 4, y: y(p[1]) - 6, class: 'pc-rhlabel pc-satlabel', 'text-anchor': 'end' }, '100 %'));
+      const lx = x(p[0]) - 4, ly = y(p[1]) - 6;
+      if (p[1] <= wTop && place(lx - textW('100 %', 11), ly - 10, textW('100 %', 11), 12)) {
+        labels.appendChild(s('text', { x: lx, y: ly, class: 'pc-rhlabel pc-satlabel', 'text-anchor': 'end' }, '100 %'));
       }
       continue;
     }
@@ -120,13 +158,22 @@ export function psychroChart(chartData, enter, leave, units) {
     // A curve leaving through the top runs close to saturation there: only 10 and 50 % keep a label.
     if (!last || (last[0] < high - 1e-9 && c.rel_hum !== 10 && c.rel_hum !== 50)) continue;
     const lx = Math.min(x(last[0]), m.l + pw - 2), ly = Math.max(y(last[1]), m.t + 12);
-    labels.appendChild(s('text', { x: lx - 2, y: ly - 2, class: 'pc-rhlabel', 'text-anchor': 'end' }, `${c.rel_hum} %`));
+    const t = `${c.rel_hum} %`, w = textW(t, 11);
+    if (place(lx - 2 - w, ly - 12, w, 12)) {
+      labels.appendChild(s('text', { x: lx - 2, y: ly - 2, class: 'pc-rhlabel', 'text-anchor': 'end' }, t));
+    }
+  }
+  for (const [wb, p] of wbLabels) {
+    const t = String(Math.round(wb * 10) / 10), w = textW(t, 10);
+    const lx = x(p[0]) - 3, ly = y(p[1]) - 3;
+    if (lx - w >= m.l && place(lx - w, ly - 9, w, 10)) {
+      labels.appendChild(s('text', { x: lx, y: ly, class: 'pc-wblabel', 'text-anchor': 'end', 'font-size': 10, fill: '#4a6a8a' }, t));
+    }
   }
   svg.appendChild(curves);
   svg.appendChild(labels);
 
   // The process: entering → leaving.
-  const ok = (st) => st && Number.isFinite(st.dry_bulb) && Number.isFinite(st.hum_ratio);
   if (ok(enter) && ok(leave)) {
     // Stop the line short of the leaving circle so the arrowhead shows beside it.
     const x1 = x(enter.dry_bulb), y1 = y(enter.hum_ratio), x2 = x(leave.dry_bulb), y2 = y(leave.hum_ratio);
@@ -136,16 +183,10 @@ export function psychroChart(chartData, enter, leave, units) {
       class: 'pc-process', 'data-test': 'chart-process', 'marker-end': `url(#${clipId}-arrow)`,
     }));
   }
-  for (const [st, name] of [[enter, 'entering'], [leave, 'leaving']]) {
-    if (!ok(st)) continue;
-    const cx = x(st.dry_bulb), cy = y(st.hum_ratio);
-    const right = cx < m.l + pw * 0.6;
+  for (const { st, name, cx, cy, tx, ty, right } of stateMarks) {
     svg.appendChild(s('circle', { cx, cy, r: 5, class: `pc-state pc-${name}`, 'data-test': 'chart-state', 'data-state': name },
       s('title', {}, `${name}: ${st.dry_bulb.toFixed(1)} ${tUnit}, ${st.hum_ratio.toFixed(4)} ${wUnit}`)));
-    svg.appendChild(s('text', {
-      x: right ? cx + 8 : cx - 8, y: name === 'entering' ? cy - 8 : cy + 14,
-      class: 'pc-statelabel', 'text-anchor': right ? 'start' : 'end',
-    }, name));
+    svg.appendChild(s('text', { x: tx, y: ty, class: 'pc-statelabel', 'text-anchor': right ? 'start' : 'end' }, name));
   }
   return svg;
 }
