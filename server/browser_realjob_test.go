@@ -94,16 +94,16 @@ func TestBrowserJobNewToSignedReport(t *testing.T) {
 	lead.click("[data-test=open-setup]")
 	lead.waitSel("[data-test=setup-screen]")
 	lead.click("[data-test=add-system]")
-	lead.fill("tag", "RTU-3", "kind=", "rooftop_unit", "design.airflow", "1200", "design.make", "Northwind Air Works")
-	lead.saveForm()
+	lead.fillForm("tag", "RTU-3", "kind=", "rooftop_unit", "design.airflow", "1200", "design.make", "Northwind Air Works")
+	lead.saveSetupForm()
 	lead.click("[data-test=add-instrument]")
-	lead.fill("tag", "Hood 1", "kind=", "flow_hood", "calibrated_on=", "2026-06-01", "calibration_due=", "2027-06-01",
+	lead.fillForm("tag", "Hood 1", "kind=", "flow_hood", "calibrated_on=", "2026-06-01", "calibration_due=", "2027-06-01",
 		"accuracy_pct", "3", "accuracy_abs", "7", "accuracy_unit", "cfm")
-	lead.saveForm()
+	lead.saveSetupForm()
 	lead.click(tagSel("setup-system", "RTU-3") + " [data-test=add-outlet]")
-	lead.fill("tag", "S-7", "room", "Waiting room", "size", "24x24", "design_flow", "240")
-	lead.saveForm()
-	snap := mustSnapshot(t, app, jobID)
+	lead.fillForm("tag", "S-7", "room", "Waiting room", "size", "24x24", "design_flow", "240")
+	lead.saveSetupForm()
+	snap := setupSnapshot(t, app, jobID)
 	if len(snap.Systems) != 1 || len(snap.Outlets) != 1 || len(snap.Instruments) != 1 {
 		t.Fatalf("after the lead's setup: %d systems, %d outlets, %d instruments; want one each",
 			len(snap.Systems), len(snap.Outlets), len(snap.Instruments))
