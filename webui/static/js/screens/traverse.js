@@ -129,7 +129,7 @@ function conflicts(ctx, res) {
       h('ul', {}, c.readings.map((x) => {
         const r = ctx.role === 'lead' && byId(snap(ctx).readings, x.reading_id);
         return h('li', {}, `${num(x.value, undefined, x.unit)} by ${x.technician || 'unknown'} at ${timeText(x.taken_at)} `,
-          r && (fixForm(ctx, r, { where: 'conflict' }) || h('button', { type: 'button', class: 'btn danger', 'data-test': 'conflict-void', 'data-id': r.id, on: { click: () => openFix(ctx, r.id, 'void', 'conflict') } }, 'Void this one')));
+          r && (fixForm(ctx, r, { where: 'conflict' }) || h('div', {}, h('button', { type: 'button', class: 'btn danger', 'data-test': 'conflict-void', 'data-id': r.id, on: { click: () => openFix(ctx, r.id, 'void', 'conflict') } }, 'Void this one'))));
       })))),
     ctx.role !== 'lead' && h('p', {}, 'The lead resolves it.'));
 }

@@ -34,8 +34,8 @@ export function render(ctx) {
       h('div', {}, valve ? `Balancing valve, ${si ? 'Kv' : 'Cv'} ${asEntered(wt.valve_cv)}: read the ΔP across it` : 'Flow meter: read the flow'),
       h('div', {}, `Fluid: ${fluid} · design ${num(wt.design_flow, 1, U.water_flow)}`),
       linked && h('div', {}, `Air side: capacity test ${linked.tag}`),
-      h('div', { 'data-test': 'water-mode' }, `Stated: ${wt.mode || 'not stated'}${res && res.process ? ` · the water shows ${res.process}` : ''}`)),
-    res && res.mode_note && h('div', { class: 'scr-msg scr-msg-warn', role: 'alert', 'data-test': 'water-mode-note' }, h('strong', {}, 'Check the mode: '), res.mode_note));
+      h('div', { 'data-test': 'water-mode' }, `Stated mode: ${wt.mode || 'not stated'}${res && res.process ? ` · the water shows ${res.process}` : ''}`)),
+    res && res.mode_note && h('div', { class: 'scr-msg scr-msg-warn', role: 'alert', 'data-test': 'water-mode-note' }, h('strong', {}, 'Check the mode: '), `${res.mode_note}.`));
 
   const formBox = h('div', { class: 'card' });
   const drawForm = () => {
