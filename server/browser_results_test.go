@@ -19,8 +19,8 @@ import (
 
 // resultsJob is a job made through the store for TestBrowserResults.
 type resultsJob struct {
-	job, system, traverse, water string
-	conflict                     [2]string // the two unmarked final readings of point 3
+	job, system, traverse, water, capacity string
+	conflict                               [2]string // the two unmarked final readings of point 3
 }
 
 func makeResultsJob(t *testing.T, db *schema.DB) resultsJob {
@@ -36,7 +36,7 @@ func makeResultsJob(t *testing.T, db *schema.DB) resultsJob {
 	j := &schema.Job{Name: "Quarry Lane Clinic", Units: "ip"}
 	must(db.CreateJob(ctx, lead, j))
 	sys := &schema.System{JobID: j.ID, Tag: "AHU-2", Kind: "air_handler", Name: "Exam rooms",
-		Design: schema.SystemDesign{Airflow: 4000, MotorHP: 5, Volts: 460, Phase: 3, FLA: 7.6, FanRPM: 900, MotorRPM: 1750}}
+		Design: schema.SystemDesign{Airflow: 4000, RatedTotal: 120_000, RatedSensible: 86_000, MotorHP: 5, Volts: 460, Phase: 3, FLA: 7.6, FanRPM: 900, MotorRPM: 1750}}
 	must(schema.Create(ctx, db, lead, sys))
 	tr := &schema.Traverse{JobID: j.ID, SystemID: sys.ID, Tag: "T-2", Location: "main supply", Shape: "round", Method: "equal-area",
 		Diameter: 24, PointsPerDiameter: 4, Diameters: 2}
@@ -44,7 +44,9 @@ func makeResultsJob(t *testing.T, db *schema.DB) resultsJob {
 	wt := &schema.WaterTest{JobID: j.ID, SystemID: sys.ID, Tag: "HW coil AHU-2", Mode: "heating", FlowSource: "meter",
 		Fluid: "water", DesignFlow: 12}
 	must(schema.Create(ctx, db, lead, wt))
-	rj := resultsJob{job: j.ID, system: sys.ID, traverse: tr.ID, water: wt.ID}
+	ct := &schema.CapacityTest{JobID: j.ID, SystemID: sys.ID, Tag: "CT-2", Mode: "cooling", FlowSource: "direct", FlowBasis: "standard"}
+	must(schema.Create(ctx, db, lead, ct))
+	rj := resultsJob{job: j.ID, system: sys.ID, traverse: tr.ID, water: wt.ID, capacity: ct.ID}
 	var outlets []string
 	for i := range 2 {
 		o := &schema.Outlet{JobID: j.ID, SystemID: sys.ID, Tag: fmt.Sprintf("S-20%d", i+1), Room: "Exam", Kind: "supply",
@@ -76,6 +78,14 @@ func makeResultsJob(t *testing.T, db *schema.DB) resultsJob {
 	// Outlets 3,000 cfm against the traverse's 4,360: 31 % apart.
 	for _, o := range outlets {
 		rs = append(rs, rd(schema.SubjectOutlet, o, "flow", 0, 1500, schema.UnitCFM, schema.StageFinal))
+	}
+	for _, x := range []struct {
+		q string
+		v float64
+		u string
+	}{{"enter_db", 80, schema.UnitDegF}, {"enter_wb", 67, schema.UnitDegF}, {"leave_db", 55, schema.UnitDegF},
+		{"leave_wb", 54, schema.UnitDegF}, {"outdoor_db", 95, schema.UnitDegF}, {"flow", 4000, schema.UnitCFM}} {
+		rs = append(rs, rd(schema.SubjectCapacityTest, ct.ID, x.q, 0, x.v, x.u, schema.StageFinal))
 	}
 	rs = append(rs, rd(schema.SubjectSystem, sys.ID, "fan_rpm", 0, 1000, schema.UnitRPM, schema.StageFinal),
 		rd(schema.SubjectWaterTest, wt.ID, "flow", 0, 12, schema.UnitGPM, schema.StageFinal),
@@ -214,6 +224,15 @@ func TestBrowserResults(t *testing.T) {
 		t.Errorf("the water screen's first caution is %q on a heating coil, want hot_water", got)
 	}
 	p.screenshots("results-water", "")
+
+	// A nameplate rating is at the maker's rating conditions, not the test's:
+	// the screen says so beside the figure.
+	p.goHash("#/job/" + rj.job + "/capacity/" + rj.capacity)
+	p.wait("the expected capacity's basis", textHas("[data-test=capacity-basis]", "rating conditions, not the test's"))
+	if got := p.text("[data-test=capacity-expected]"); !strings.HasPrefix(got, "Rated total") {
+		t.Errorf("expected capacity row %q, want it labelled as the rated total", got)
+	}
+	p.screenshots("results-capacity", "[data-test=capacity-basis]")
 
 	p.goHash("#/job/" + rj.job)
 	p.waitSel("[data-test=job-home]")

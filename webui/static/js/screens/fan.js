@@ -1,7 +1,7 @@
 // Fan screen: a system's fan and motor in the steps a technician takes them
 // (nameplate and drive, speed, volts and amps, static pressures), each saved
 // on its own with the server's results beside it.
-import { h, caution, kindWord, statusBadge, agreeText } from '../ui.js';
+import { h, caution, kindWord, statusBadge, agreeText, sideLine } from '../ui.js';
 import {
   screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, badge, row, num,
   tolerance, messages, header, noteLine, nowHint, put, fill, unitLabel, unitFor, saveRow, notFound,
@@ -77,7 +77,7 @@ export function render(ctx) {
       row('Airflow', res && res.airflow !== undefined ? num(res.airflow, 0, U.air_flow) + ({ traverse: ` (from the traverse${(byId(results(ctx).traverses, res.airflow_traverse_id) || {}).density_source === 'standard' ? ', standard air' : ''})`, outlets: ' (sum of the outlets)' }[res.airflow_source] || '') : 'not measured yet', 'fan-airflow'),
       row('Design airflow', num(d.airflow, 0, U.air_flow)),
       res && tolerance(res.airflow_tolerance, U.air_flow),
-      res && res.outlets_vs_traverse && h('div', { class: 'scr-tol', 'data-test': 'fan-agreement' }, agreeText(res.outlets_vs_traverse, U.air_flow), statusBadge(res.outlets_vs_traverse.status)),
+      res && res.outlets_vs_traverse && h('div', { class: 'scr-tol', 'data-test': 'fan-agreement' }, agreeText(res.outlets_vs_traverse, U.air_flow), statusBadge(res.outlets_vs_traverse.status), sideLine(res.outlets_vs_traverse.tolerance)),
       res && res.errors && res.errors.length > 0 && h('div', { class: 'scr-status' }, badge('error')),
       res && messages({ errors: res.errors, flags: res.flags })),
     step(1, 'Nameplate and drive', 'drive', h('dl', { class: 'plate', 'data-test': 'fan-design' }, plate.map(([k, v]) => [h('dt', {}, k), h('dd', {}, v)])),

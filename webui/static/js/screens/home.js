@@ -45,7 +45,7 @@ function systemCard(ctx, sys, rec, tests) {
       h('p', { 'data-test': 'system-progress' }, progressText(o)),
     ] : h('p', { class: 'muted' }, 'No outlets on this system.'),
     sys.airflow ? h('p', { class: 'small' }, `Airflow ${fmt(sys.airflow)} ${units.air_flow || ''} of design ${fmt(sys.design_airflow)}`,
-      sys.airflow_tolerance ? ` (${fmt(sys.airflow_tolerance.percent_of_design, 1)} %)` : '') : null,
+      sys.airflow_tolerance ? ` (${fmt(sys.airflow_tolerance.percent_of_design, 1)} %${sys.airflow_tolerance.side_text ? `; ${sys.airflow_tolerance.side_text}` : ''})` : '') : null,
     sys.outlets_vs_traverse ? h('p', { class: 'small', 'data-test': 'outlets-vs-traverse' }, agreeText(sys.outlets_vs_traverse, units.air_flow || ''), statusBadge(sys.outlets_vs_traverse.status)) : null,
     all.length ? h('p', { class: 'small' }, `Tests done: ${done} of ${all.length}`) : null,
     sys.kind === 'rooftop_unit' ? caution('roof') : null,

@@ -50,7 +50,7 @@ function latestLine(ctx, o, n, entry, inView) {
   return h('div', { class: 'latest', 'data-test': 'outlet-latest', 'data-status': done ? r.status : 'waiting' },
     done
       ? [h('strong', { class: 'latest-flow' }, `${fmt(r.flow)} ${u}`), ' ',
-        r.tolerance ? `${fmt(r.tolerance.percent_of_design, 0)} % of design ` : '', statusBadge(r.status)]
+        r.tolerance ? `${fmt(r.tolerance.percent_of_design, 0)} % of design ` : '', statusBadge(r.status), sideLine(r.tolerance)]
       : `Saved ${n.what}. ${entry && entry.state === 'waiting' ? 'Waiting to send.' : 'Waiting for the result.'}`);
 }
 
