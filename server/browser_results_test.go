@@ -172,6 +172,7 @@ func TestBrowserResults(t *testing.T) {
 		t.Errorf("as-found flow shows %v, want %.0f cfm within 1 %%", v, asFound)
 	}
 	p.screenshots("results-traverse-conflict", "[data-test=traverse-conflicts]")
+	p.screenshots("results-traverse-conflict-grid", "[data-test=point-buttons]")
 
 	// The lead voids the second device's reading, with a reason.
 	p.click("[data-test=conflict-void][data-id=" + js(rj.conflict[1]) + "]")
