@@ -101,6 +101,11 @@ const STATUS_WORDS = {
   due_soon: ['!', 'calibration due soon'],
   overdue: ['✕', 'calibration overdue'],
   unknown: ['?', 'calibration date unknown'],
+  conflict: ['!', 'conflict'],
+  agree: ['✓', 'agree'],
+  disagree: ['≠', 'disagree'],
+  ok: ['✓', 'ok'],
+  warning: ['!', 'warning'],
 };
 
 export function statusWord(status) {
@@ -112,6 +117,12 @@ export function statusBadge(status, text) {
   return h('span', { class: `badge status-${status}`, 'data-status': status },
     h('span', { class: 'badge-sym', 'aria-hidden': 'true' }, sym), ' ', text || word);
 }
+
+// sideLine: where an undetermined value itself lies (the server's words).
+export const sideLine = (t, what = 'The value is') => t && t.side_text && h('p', { class: 'scr-side', 'data-test': 'side' }, `${what} ${t.side_text}.`);
+
+// agreeText: a system's outlet sum against its traverse.
+export const agreeText = (a, u) => `Outlets ${fmt(a.outlet_sum)} ${u}, traverse ${fmt(a.traverse_flow)} ${u}: ${a.difference_pct > 0 ? '+' : ''}${fmt(a.difference_pct, 1)} % `;
 
 // Cautions, one line each (a tap opens the rest), deferring to the site's rules.
 const DEFER = 'The project specification, local codes, the site safety plan and licensed practice govern; where they say more, follow them.';

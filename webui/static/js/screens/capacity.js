@@ -1,6 +1,6 @@
 // Capacity test: entering and leaving air, outdoor dry bulb, a direct airflow;
 // every figure and the chart's curves are the server's.
-import { h, caution } from '../ui.js';
+import { h, caution, sideLine } from '../ui.js';
 import { psychroChart, chartRange, loadChart, cachedChart } from '../chart.js';
 import {
   screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, badge, row, num,
@@ -59,17 +59,18 @@ export function render(ctx) {
   drawForm();
 
   const result = resultCard('capacity-result', res && res.status, res, () => {
-    const c = res.capacity, u = res.uncertainty || {}, e = res.expected;
+    const c = res.capacity, u = res.uncertainty || {}, e = res.expected, ex = e && !e.at_test_conditions ? 'Rated' : 'Expected';
     const pm = (v, unc) => `${power(v, U.power)}${unc ? ` ± ${num(unc, 0)} ${U.power}` : ''}`;
     const basis = res.flow_basis === 'standard' ? ' (standard air)' : res.flow_basis ? ` (${res.flow_basis}ing air)` : '';
     return [
-      h('div', { class: 'scr-status' }, badge(res.status)),
+      h('div', { class: 'scr-status' }, badge(res.status)), sideLine(res, 'Delivered:'),
       res.airflow !== undefined && row('Airflow', num(res.airflow, 0, U.air_flow) + basis),
       c && [row(`Total (${c.process})`, pm(c.total, u.total), 'capacity-total'), row('Sensible', pm(c.sensible, u.sensible), 'capacity-sensible'),
         row('Latent', power(c.latent, U.power), 'capacity-latent'), row('Sensible heat ratio', num(c.shr, 2), 'capacity-shr')],
-      e && row(`Expected total (${EXPECTED[e.source] || e.source})`, power(e.total, U.power), 'capacity-expected'),
-      e && e.sensible !== undefined && row('Expected sensible', power(e.sensible, U.power)),
-      res.percent_of_expected !== undefined && row('Delivered', `${num(res.percent_of_expected, 1)} % of expected`, 'capacity-percent'),
+      e && row(`${ex} total (${EXPECTED[e.source] || e.source})`, power(e.total, U.power), 'capacity-expected'),
+      e && e.basis && h('p', { class: 'hint', 'data-test': 'capacity-basis' }, `Basis: ${e.basis}.`),
+      e && e.sensible !== undefined && row(`${ex} sensible`, power(e.sensible, U.power)),
+      res.percent_of_expected !== undefined && row('Delivered', `${num(res.percent_of_expected, 1)} % of ${ex.toLowerCase()}`, 'capacity-percent'),
       e && e.note && h('p', { class: 'hint' }, e.note),
       u.omits && u.omits.length > 0 && h('p', { class: 'hint' }, `The ± leaves out: ${u.omits.join('; ')}.`),
       states(res, U), missingList(res.missing, WORDS), messages(res)];

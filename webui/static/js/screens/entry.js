@@ -1,6 +1,6 @@
 // Shared parts of the test screens: entries that survive a re-render, posting
 // through the outbox, and result rows. Every figure is the server's.
-import { h, fmt, statusBadge, numberField, parseNumber, put, kindWord } from '../ui.js';
+import { h, fmt, statusBadge, numberField, parseNumber, put, kindWord, sideLine } from '../ui.js';
 import { store } from '../store.js';
 import { head, ask, noteInput, live } from './fix.js';
 
@@ -147,16 +147,20 @@ const WORDS = {
   within: 'within tolerance', low: 'low: below the band', high: 'high: above the band',
   undetermined: 'undetermined with this instrument', meets: 'meets the expected capacity',
   short: 'short of the expected capacity', no_expected: 'no expected capacity on record',
+  conflict: 'conflict: two readings of a point',
 };
 export const badge = (status) => statusBadge(status, WORDS[status]);
 
 export const row = (label, value, test) => h('div', { class: 'scr-row', 'data-test': test || null },
   h('span', { class: 'scr-k' }, label), h('span', { class: 'scr-v' }, value ?? '—'));
 
+// pmText: ", reading ± 20 cfm"; no ± (not ± 0) with no instrument accuracy on record.
+export const pmText = (t, unit, d = 0) => (t.uncertainty_unknown ? ', no instrument accuracy on record' : t.uncertainty ? `, reading ± ${fmt(t.uncertainty, d)} ${unit}` : '');
+
 // tolerance: "98.7 % of design (band 3,800 to 4,400 cfm, reading ± 20 cfm)".
 export function tolerance(tol, unit, d = 0) {
   return tol && h('div', { class: 'scr-tol' }, badge(tol.status), ' ',
-    `${fmt(tol.percent_of_design, 1)} % of design (band ${fmt(tol.low, d)} to ${fmt(tol.high, d)} ${unit}${tol.uncertainty ? `, reading ± ${fmt(tol.uncertainty, d)} ${unit}` : ''})`);
+    `${fmt(tol.percent_of_design, 1)} % of design (band ${fmt(tol.low, d)} to ${fmt(tol.high, d)} ${unit}${pmText(tol, unit, d)})`, sideLine(tol));
 }
 
 const msgBox = (list, cls, title, test) => list && list.length > 0 && h('div', { class: `scr-msg ${cls}`, 'data-test': test },

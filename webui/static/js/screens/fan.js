@@ -1,7 +1,7 @@
 // Fan screen: a system's fan and motor in the steps a technician takes them
 // (nameplate and drive, speed, volts and amps, static pressures), each saved
 // on its own with the server's results beside it.
-import { h, caution, kindWord } from '../ui.js';
+import { h, caution, kindWord, statusBadge, agreeText, sideLine } from '../ui.js';
 import {
   screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, badge, row, num,
   tolerance, messages, header, noteLine, nowHint, put, fill, unitLabel, unitFor, saveRow, notFound,
@@ -77,6 +77,7 @@ export function render(ctx) {
       row('Airflow', res && res.airflow !== undefined ? num(res.airflow, 0, U.air_flow) + ({ traverse: ` (from the traverse${(byId(results(ctx).traverses, res.airflow_traverse_id) || {}).density_source === 'standard' ? ', standard air' : ''})`, outlets: ' (sum of the outlets)' }[res.airflow_source] || '') : 'not measured yet', 'fan-airflow'),
       row('Design airflow', num(d.airflow, 0, U.air_flow)),
       res && tolerance(res.airflow_tolerance, U.air_flow),
+      res && res.outlets_vs_traverse && h('div', { class: 'scr-tol', 'data-test': 'fan-agreement' }, agreeText(res.outlets_vs_traverse, U.air_flow), statusBadge(res.outlets_vs_traverse.status), sideLine(res.outlets_vs_traverse.tolerance)),
       res && res.errors && res.errors.length > 0 && h('div', { class: 'scr-status' }, badge('error')),
       res && messages({ errors: res.errors, flags: res.flags })),
     step(1, 'Nameplate and drive', 'drive', h('dl', { class: 'plate', 'data-test': 'fan-design' }, plate.map(([k, v]) => [h('dt', {}, k), h('dd', {}, v)])),
@@ -86,22 +87,24 @@ export function render(ctx) {
         fl && row('Motor sheave for design', num(fl.motor_sheave, dg, U.length), 'fan-law-sheave')]),
     step(2, 'Speed', 'speed', null,
       (add) => [instrumentSelect(ctx, st, 'speed', ['tachometer'], { label: 'Tachometer' }), grid(add('q-fan_rpm', 'Fan', 'fan_rpm', 0, 'speed'), add('q-motor_rpm', 'Motor', 'motor_rpm', 0, 'speed'))],
-      () => [row('Fan / motor speed', `${num(res.fan_rpm, 0)} / ${num(res.motor_rpm, 0)} rpm`), row('Design fan speed', num(d.fan_rpm, 0, 'rpm')),
+      () => [row('Fan / motor speed', `${num(res.fan_rpm, 0)} / ${num(res.motor_rpm, 0)} rpm`), row('Design fan speed', num(d.fan_rpm, 0, 'rpm')), res.fan_rpm_percent_of_design !== undefined && row('Fan speed, % of design', pct(res.fan_rpm_percent_of_design), 'fan-rpm-pct'),
         fl && h('div', { class: 'scr-agree', 'data-test': 'fan-law' }, h('h3', {}, `To reach design (${num(fl.target_flow, 0, U.air_flow)})`),
           row('Fan speed', num(fl.fan_rpm, 0, 'rpm'), 'fan-law-rpm'), row('Input power', kw(fl.input_power_kw), 'fan-law-power'), fl.note && h('p', { class: 'hint' }, fl.note))]),
     step(3, 'Volts and amps', 'electrical', caution('electrical'),
       (add) => [instrumentSelect(ctx, st, 'electrical', ['clamp_meter', 'multimeter'], { label: 'Meter', test: 'instrument-electrical' }),
         h('p', { class: 'hint' }, phases === 1 ? 'Single phase: one reading each.' : 'Volts leg to leg, amps on each leg (1 to 3).'),
         legs(add, 'volts', 'Volts'), legs(add, 'amps', 'Amps'), grid(add('q-power_factor', 'Power factor (if read)', 'power_factor', 0, 'electrical'))],
-      () => [row('Volts', legText(res.volts, 'V', 0)), row('Amps', legText(res.amps, 'A', 1)),
+      () => [res.motor_status && h('div', { class: 'scr-status', 'data-test': 'motor-status', 'data-status': res.motor_status }, statusBadge(res.motor_status, res.motor_status === 'ok' ? 'motor checks pass' : 'motor check: see the warnings')),
+        messages({ warnings: res.motor_warnings }), row('Volts', legText(res.volts, 'V', 0)), row('Amps', legText(res.amps, 'A', 1)),
         row('% of FLA (highest leg)', res.percent_fla === undefined ? '—' : `${num(res.percent_fla, 0)} % of ${num(d.fla, 1)} A`, 'fan-fla'),
         row('Voltage imbalance', pct(res.voltage_imbalance_pct), 'fan-vimb'), row('Current imbalance', pct(res.current_imbalance_pct), 'fan-aimb'),
-        row('Input power', kw(res.input_power_kw), 'fan-kw'), messages({ warnings: res.warnings, notes: res.notes })]),
+        row('Input power', kw(res.input_power_kw), 'fan-kw'), messages({ notes: res.notes })]),
     step(4, 'Static pressures', 'statics', null,
       (add) => [instrumentSelect(ctx, st, 'duct_pressure', ['manometer'], { label: 'Manometer', test: 'instrument-static' }),
         grid(STATICS.map(([q, label]) => add(`q-${q}`, label, q, 0, 'duct_pressure')))],
       () => [STATICS.filter(([q]) => res.statics && res.statics[q] !== undefined).map(([q, l]) => row(l, num(res.statics[q], dg, U.duct_pressure))),
         d.external_static > 0 && row('Design external static', num(d.external_static, dg, U.duct_pressure)),
+        res.external_static_percent_of_design !== undefined && row('External static, % of design', pct(res.external_static_percent_of_design), 'fan-static-pct'),
         fl && row('External static at design flow', num(fl.static_pressure, dg, U.duct_pressure), 'fan-law-static')]),
     historyView(ctx, 'system', id, { signed: true }));
   return root;

@@ -2,7 +2,7 @@
 // instruments with their calibration, the findings, the outbox and (for
 // leads) the lead's tools.
 
-import { h, fmt, statusBadge, statusWord, caution, kindWord, link, jobHash } from '../ui.js';
+import { h, fmt, statusBadge, statusWord, caution, kindWord, link, jobHash, agreeText } from '../ui.js';
 
 const FAN_KINDS = new Set(['air_handler', 'rooftop_unit', 'fan']);
 const DONE = new Set(['computed', 'meets', 'short', 'no_expected', 'within', 'low', 'high', 'undetermined']);
@@ -37,14 +37,16 @@ function systemCard(ctx, sys, rec, tests) {
     h('div', { class: 'sys-head' },
       h('span', { class: 'tag' }, sys.tag),
       h('span', { class: 'kindword' }, kindWord(sys.kind)),
-      sys.airflow_tolerance ? h('span', { class: 'badges' }, statusBadge(sys.airflow_tolerance.status, `airflow ${statusWord(sys.airflow_tolerance.status)}`)) : null),
+      h('span', { class: 'badges' }, sys.airflow_tolerance ? statusBadge(sys.airflow_tolerance.status, `airflow ${statusWord(sys.airflow_tolerance.status)}`) : null,
+        sys.motor_status === 'warning' ? statusBadge('warning', 'motor check') : null)),
     h('p', { class: 'sub' }, sys.name || (rec && rec.location) || ''),
     o.total ? [
       h('div', { class: `progress${out ? ' has-out' : ''}`, role: 'img', 'aria-label': `${pct}% of outlets read` }, bar),
       h('p', { 'data-test': 'system-progress' }, progressText(o)),
     ] : h('p', { class: 'muted' }, 'No outlets on this system.'),
     sys.airflow ? h('p', { class: 'small' }, `Airflow ${fmt(sys.airflow)} ${units.air_flow || ''} of design ${fmt(sys.design_airflow)}`,
-      sys.airflow_tolerance ? ` (${fmt(sys.airflow_tolerance.percent_of_design, 1)} %)` : '') : null,
+      sys.airflow_tolerance ? ` (${fmt(sys.airflow_tolerance.percent_of_design, 1)} %${sys.airflow_tolerance.side_text ? `; ${sys.airflow_tolerance.side_text}` : ''})` : '') : null,
+    sys.outlets_vs_traverse ? h('p', { class: 'small', 'data-test': 'outlets-vs-traverse' }, agreeText(sys.outlets_vs_traverse, units.air_flow || ''), statusBadge(sys.outlets_vs_traverse.status)) : null,
     all.length ? h('p', { class: 'small' }, `Tests done: ${done} of ${all.length}`) : null,
     sys.kind === 'rooftop_unit' ? caution('roof') : null,
     h('div', { class: 'actions' },

@@ -1,9 +1,9 @@
 // One outlet: a big entry for the hood (or velocity) reading and the server's
 // result for as found and final; "Next outlet" walks the list.
 
-import { h, fmt, statusBadge, numberField, select, parseNumber, clean, kindWord, timeText, caution, link, jobHash, put, fill } from '../ui.js';
+import { h, fmt, sideLine, statusBadge, numberField, select, parseNumber, clean, kindWord, timeText, caution, link, jobHash, put, fill } from '../ui.js';
 import { nextOutlet } from './outlets.js';
-import { screenState, instrumentSelect } from './entry.js';
+import { screenState, instrumentSelect, pmText } from './entry.js';
 import { pendingOf, head, far, ask, noteInput, fixButtons, fixForm, historyView } from './fix.js';
 
 // Instrument kinds that read each outlet quantity, most likely first.
@@ -36,7 +36,7 @@ function stageBlock(ctx, stage, r, o, quantity, rec) {
     h('div', { class: 'row' }, h('h3', { class: 'grow' }, word), statusBadge(r.status)),
     h('div', { class: 'flow', 'data-test': 'outlet-flow' }, r.flow !== undefined && r.flow !== null ? `${fmt(r.flow)} ${u.air_flow || ''}` : '—'),
     t ? h('p', {}, `${fmt(t.percent_of_design, 1)} % of design ${fmt(o.design_flow)} ${u.air_flow || ''}`) : null,
-    t ? h('p', { class: 'band' }, `band ${fmt(t.low)}–${fmt(t.high)} ${u.air_flow || ''}, ± ${fmt(t.uncertainty)} ${u.air_flow || ''} from the instrument`) : null,
+    t ? h('p', { class: 'band' }, `band ${fmt(t.low)}–${fmt(t.high)} ${u.air_flow || ''}${pmText(t, u.air_flow || '')}`) : null, sideLine(t),
     h('p', { class: 'small muted' }, `read ${fmt(r.reading)} ${readUnit || ''}` + (instr ? ` with ${instr.tag}` : '') + (r.taken_at ? ` at ${timeText(r.taken_at)}` : '')),
     fix);
 }
@@ -50,7 +50,7 @@ function latestLine(ctx, o, n, entry, inView) {
   return h('div', { class: 'latest', 'data-test': 'outlet-latest', 'data-status': done ? r.status : 'waiting' },
     done
       ? [h('strong', { class: 'latest-flow' }, `${fmt(r.flow)} ${u}`), ' ',
-        r.tolerance ? `${fmt(r.tolerance.percent_of_design, 0)} % of design ` : '', statusBadge(r.status)]
+        r.tolerance ? `${fmt(r.tolerance.percent_of_design, 0)} % of design ` : '', statusBadge(r.status), sideLine(r.tolerance)]
       : `Saved ${n.what}. ${entry && entry.state === 'waiting' ? 'Waiting to send.' : 'Waiting for the result.'}`);
 }
 

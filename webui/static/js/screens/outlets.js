@@ -72,7 +72,7 @@ function item(ctx, o, pend, airUnit, other) {
   h('span', { class: 'room' }, other ? `${o.system_tag} · ` : '', o.room, h('br', {}), h('span', { class: 'figs small' }, `${kindWord(o.kind)} · ${figs}`)),
   h('span', { class: 'badges' },
     pend ? statusBadge(pend === 'rejected' ? 'rejected' : 'waiting') : null,
-    (o.flags || []).length ? statusBadge('flag') : null,
+    (o.flags || []).length ? statusBadge('flag', o.flags.every((f) => f.kind === 'no_instrument') ? 'no instrument: no ±' : null) : null,
     statusBadge(o.status))));
 }
 

@@ -1,24 +1,28 @@
 // Traverse screen: a duct plane read point by point with a pitot tube (or an
 // anemometer). Point positions, velocities and the flow all come from the
 // server's results; the app only shows them and posts readings.
-import { h, caution, kindWord, fmt } from '../ui.js';
+import { h, caution, kindWord, fmt, timeText } from '../ui.js';
 import { s } from '../chart.js';
 import {
   screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, collect, post, head,
   badge, row, num, tolerance, messages, header, saveButton, noteLine, nowHint, unitLabel, asEntered,
   put, fill, saveRow, resultCard, notFound, farReasons,
 } from './entry.js';
-import { historyView, far, median, ask, noteInput } from './fix.js';
+import { historyView, far, median, ask, noteInput, fixForm, openFix } from './fix.js';
 
 const DENSITY = { measured: 'from the air read at the plane', standard: 'standard air (no dry bulb read)', dry_air: 'dry air at the plane dry bulb (no RH or wet bulb)' };
 const PT = ['vp', 'velocity'];
 
+// pointName: "Line 2, point 3".
+const pointName = (p) => {
+  const m = /^(line|diameter) (\d+) point (\d+)$/.exec(p.label) || [];
+  return m[1] ? `${m[1] === 'line' ? 'Line' : 'Diameter'} ${m[2]}, point ${m[3]}` : `Point ${p.point}`;
+};
+
 // pointWords: "Line 2, point 3: 12.0 in from the wall (port 3.5 in from the corner)".
 export function pointWords(p, len) {
   const d = len === 'mm' ? 0 : 1;
-  const m = /^(line|diameter) (\d+) point (\d+)$/.exec(p.label) || [];
-  const head = m[1] ? `${m[1] === 'line' ? 'Line' : 'Diameter'} ${m[2]}, point ${m[3]}` : `Point ${p.point}`;
-  return `${head}: ${fmt(p.depth, d)} ${len} from the wall` +
+  return `${pointName(p)}: ${fmt(p.depth, d)} ${len} from the wall` +
     (p.port_offset !== undefined ? ` (port ${fmt(p.port_offset, d)} ${len} from the corner)` : '');
 }
 
@@ -55,7 +59,7 @@ function grid(tr, states, current, onPick) {
   const svg = s('svg', { class: 'tgrid', 'data-test': 'traverse-grid', 'aria-hidden': 'true' });
   // (vx, vy): where the velocity goes from the dot.
   const dot = (p, cx, cy, room, vx = 0, vy = 20) => {
-    const state = p.pending && !p.stored ? 'waiting' : p.read ? 'read' : 'unread';
+    const state = p.conflict ? 'conflict' : p.pending && !p.stored ? 'waiting' : p.read ? 'read' : 'unread';
     return s('g', {
       class: `tp tp-${state}`, 'data-test': 'grid-point', 'data-point': p.point, 'data-state': state, 'aria-hidden': 'true', on: { click: () => onPick(p.point) },
     }, s('circle', { cx, cy, r: 14, class: 'tp-hit' }),
@@ -110,9 +114,24 @@ function pointButtons(states, current, onPick, line) {
   return h('div', { 'data-test': 'point-buttons' }, lines.map((n) => h('div', { class: 'tbtn-line' },
     h('span', { class: 'tbtn-head' }, `${line} ${n}`),
     states.filter((p) => p.line === n).map((p) => h('button', {
-      type: 'button', class: `tbtn tp-${p.pending ? 'waiting' : p.read ? 'read' : 'unread'}${p.point === current ? ' tbtn-cur' : ''}`,
+      type: 'button', class: `tbtn tp-${p.conflict ? 'conflict' : p.pending ? 'waiting' : p.read ? 'read' : 'unread'}${p.point === current ? ' tbtn-cur' : ''}`,
       'data-test': 'point-button', 'data-point': p.point, 'aria-pressed': String(p.point === current), on: { click: () => onPick(p.point) },
-    }, h('span', { class: 'tbtn-n' }, String(p.point)), h('span', { class: 'tbtn-v' }, Number.isFinite(p.velocity) ? fmt(p.velocity, 0) : p.read ? '✓' : '·'))))));
+    }, h('span', { class: 'tbtn-n' }, String(p.point)), h('span', { class: 'tbtn-v' }, p.conflict ? '2×' : Number.isFinite(p.velocity) ? fmt(p.velocity, 0) : p.read ? '✓' : '·'))))));
+}
+
+// conflicts: points with two readings that each count; the lead voids one
+// (with a reason) and the server computes again.
+function conflicts(ctx, res) {
+  const list = res.conflicts || [];
+  return list.length > 0 && h('div', { class: 'scr-msg scr-msg-error', role: 'alert', 'data-test': 'traverse-conflicts' },
+    h('strong', {}, 'Two readings of one point, each counting: no flow from that stage until all but one are voided.'),
+    list.map((c) => h('div', { 'data-test': 'conflict', 'data-point': c.point }, h('p', {}, `${pointName(c)} (${kindWord(c.stage)}):`),
+      h('ul', {}, c.readings.map((x) => {
+        const r = ctx.role === 'lead' && byId(snap(ctx).readings, x.reading_id);
+        return h('li', {}, `${num(x.value, undefined, x.unit)} by ${x.technician || 'unknown'} at ${timeText(x.taken_at)} `,
+          r && (fixForm(ctx, r, { where: 'conflict' }) || h('div', {}, h('button', { type: 'button', class: 'btn danger', 'data-test': 'conflict-void', 'data-id': r.id, on: { click: () => openFix(ctx, r.id, 'void', 'conflict') } }, 'Void this one'))));
+      })))),
+    ctx.role !== 'lead' && h('p', {}, 'The lead resolves it.'));
 }
 
 export function render(ctx) {
@@ -146,12 +165,19 @@ export function render(ctx) {
     fill(gridBox, states.length
       ? [grid(tr, states, st.point, pick), pointButtons(states, st.point, pick, tr.shape === 'round' ? 'Diameter' : 'Line')]
       : h('p', { class: 'hint' }, 'The point positions come from the server; they show once it has answered.'),
-    h('p', { class: 'scr-legend' }, `● read   ◍ waiting to send   ○ not read   ◎ this point · velocities in ${U.velocity || ''}`));
+    h('p', { class: 'scr-legend' }, `● read   ◍ waiting to send   ○ not read   ◎ this point${states.some((p) => p.conflict) ? '   2× two readings' : ''} · velocities in ${U.velocity || ''}`));
+    const af = res && res.stage === 'final' && res.as_found;
+    const pm = (r) => `${num(r.flow, 0, U.air_flow)}${Number.isFinite(r.flow_uncertainty) ? ` ± ${fmt(r.flow_uncertainty, 0)} ${U.air_flow}` : ''}`;
     fill(resultBox, resultCard('traverse-result', res && res.status, res, () => [
       h('div', { class: 'scr-status' }, badge(res.status), ` ${res.points_read} of ${res.points_total} points (${kindWord(res.stage)})`),
-      row(res.density_source === 'standard' ? 'Flow (standard air)' : 'Flow (air at the plane)', num(res.flow, 0, U.air_flow), 'traverse-flow'),
+      conflicts(ctx, res),
+      row(`${af ? 'Final flow' : 'Flow'} (${res.density_source === 'standard' ? 'standard air' : 'air at the plane'})`, pm(res), 'traverse-flow'),
       sys && sys.design && sys.design.airflow > 0 && row('Design', num(sys.design.airflow, 0, U.air_flow)),
       tolerance(res.tolerance, U.air_flow),
+      af && h('div', { class: 'scr-agree', 'data-test': 'traverse-as-found' }, h('h3', {}, 'As found ', badge(af.status)),
+        row('Flow', pm(af), 'traverse-as-found-flow'), tolerance(af.tolerance, U.air_flow),
+        row('Points read', `${af.points_read} of ${af.points_total}`), messages(af)),
+      res.uncertainty_note && h('p', { class: 'hint', 'data-test': 'traverse-uncertainty' }, `${res.uncertainty_note}.`),
       row('Mean velocity', num(res.mean_velocity, 0, U.velocity), 'traverse-velocity'),
       row('Area', num(res.area, U.system === 'si' ? 3 : 2, U.area)),
       row('Air density', `${num(res.density, 4, U.density)} · ${DENSITY[res.density_source] || res.density_source}`),

@@ -23,16 +23,19 @@ export function render(ctx) {
   const linked = wt.capacity_test_id ? byId(snap(ctx).capacity_tests, wt.capacity_test_id) : null;
   const valve = wt.flow_source === 'valve';
   const fluid = wt.fluid && wt.fluid !== 'water' ? `${FLUIDS[wt.fluid] || wt.fluid}, ${wt.concentration} % by volume` : 'water';
-  // Hot: the results show water above about 120 °F (49 °C), or a heating coil.
+  // Hot: a heating coil (stated, or as the water shows), or water above
+  // about 120 °F (49 °C): common practice for a scald risk.
   const lim = si ? 49 : 120;
-  const hot = res && ((res.capacity && res.capacity.process === 'heating') || res.enter_temp > lim || res.leave_temp > lim);
+  const hot = wt.mode === 'heating' || (res && (res.process === 'heating' || res.enter_temp > lim || res.leave_temp > lim));
 
   put(root, header(`Water test ${wt.tag}`, sys ? [sys.tag, sys.name].filter(Boolean).join(' · ') : ''),
     caution(hot ? 'hot_water' : 'piping'),
     h('div', { class: 'scr-duct', 'data-test': 'water-source' },
       h('div', {}, valve ? `Balancing valve, ${si ? 'Kv' : 'Cv'} ${asEntered(wt.valve_cv)}: read the ΔP across it` : 'Flow meter: read the flow'),
       h('div', {}, `Fluid: ${fluid} · design ${num(wt.design_flow, 1, U.water_flow)}`),
-      linked && h('div', {}, `Air side: capacity test ${linked.tag}`)));
+      linked && h('div', {}, `Air side: capacity test ${linked.tag}`),
+      h('div', { 'data-test': 'water-mode' }, `Stated mode: ${wt.mode || 'not stated'}${res && res.process ? ` · the water shows ${res.process}` : ''}`)),
+    res && res.mode_note && h('div', { class: 'scr-msg scr-msg-warn', role: 'alert', 'data-test': 'water-mode-note' }, h('strong', {}, 'Check the mode: '), `${res.mode_note}.`));
 
   const formBox = h('div', { class: 'card' });
   const drawForm = () => {
@@ -57,6 +60,7 @@ export function render(ctx) {
     return [
       h('div', { class: 'scr-status' }, badge(res.status)),
       res.dp !== undefined && row('Valve ΔP', num(res.dp, 2, U.water_pressure)),
+      res.valve_accuracy_pct !== undefined && row('Valve flow accuracy', `± ${num(res.valve_accuracy_pct, 0)} % (${res.valve_accuracy_source === 'default' ? 'default, common practice' : 'stated'})`, 'water-valve-accuracy'),
       row('Flow', num(res.flow, 1, U.water_flow), 'water-flow'),
       row('Design', num(res.design_flow, 1, U.water_flow)),
       tolerance(res.tolerance, U.water_flow, 1),
