@@ -21,32 +21,40 @@ func (c *resultsCalc) checkNoInstrument(k resKey, rd *Reading) {
 	if rd.InstrumentID != "" {
 		return
 	}
-	if q, ok := LookupQuantity(rd.SubjectKind, rd.Quantity); ok && noInstrumentNeeded[q.Dimension] {
+	q, ok := LookupQuantity(rd.SubjectKind, rd.Quantity)
+	if ok && noInstrumentNeeded[q.Dimension] {
 		return
+	}
+	// The quantity in words, as the technician knows it, never its code.
+	what := strings.ReplaceAll(rd.Quantity, "_", " ")
+	if ok && q.Description != "" {
+		what = q.Description
 	}
 	fl := c.flags[k]
 	for i := range fl {
 		if fl[i].Kind == FlagNoInstrument {
 			fl[i].ReadingIDs = append(fl[i].ReadingIDs, rd.ID)
-			if !strings.Contains(fl[i].Text, rd.Quantity+",") && !strings.HasSuffix(fl[i].Text, rd.Quantity) {
-				fl[i].Text += ", " + rd.Quantity
+			if !strings.Contains("; "+strings.TrimPrefix(fl[i].Text, noInstrumentPrefix)+"; ", "; "+what+"; ") {
+				fl[i].Text += "; " + what
 			}
 			return
 		}
 	}
-	c.flags[k] = append(fl, Flag{Kind: FlagNoInstrument, ReadingIDs: []string{rd.ID},
-		Text: "taken with no instrument on record, so shown with no ±: " + rd.Quantity})
+	c.flags[k] = append(fl, Flag{Kind: FlagNoInstrument, ReadingIDs: []string{rd.ID}, Text: noInstrumentPrefix + what})
 }
+
+// noInstrumentPrefix starts a no-instrument flag's text while its readings
+// are counted; noInstrumentText rewrites it once they all are.
+const noInstrumentPrefix = "taken with no instrument on record, so shown with no ±: "
 
 // noInstrumentText finishes a no-instrument flag's text once all readings
 // are counted.
 func noInstrumentText(f *Flag) {
-	qs := strings.TrimPrefix(f.Text, "taken with no instrument on record, so shown with no ±: ")
+	qs := strings.TrimPrefix(f.Text, noInstrumentPrefix)
 	n := len(f.ReadingIDs)
 	what := "1 reading"
 	if n > 1 {
 		what = fmt.Sprintf("%d readings", n)
 	}
-	f.Text = fmt.Sprintf("%s (%s) taken with no instrument on record: shown with no ±, and not traceable to a calibration.",
-		what, strings.ReplaceAll(qs, "_", " "))
+	f.Text = fmt.Sprintf("%s (%s) taken with no instrument on record: shown with no ±, and not traceable to a calibration.", what, qs)
 }

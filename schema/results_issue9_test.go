@@ -290,7 +290,7 @@ func TestResultsSystemChecks(t *testing.T) {
 			fl = &s.Flags[i]
 		}
 	}
-	if fl == nil || len(fl.ReadingIDs) != 8 || !strings.Contains(fl.Text, "volts, amps, fan rpm, static external") {
+	if fl == nil || len(fl.ReadingIDs) != 8 || !strings.Contains(fl.Text, "(motor voltage, per leg or single; motor current, per leg or single; fan speed; external static pressure)") {
 		t.Errorf("no-instrument flag = %+v", fl)
 	}
 	if resFinding(r, FindingNoInstrument, sys.ID) == nil || resFinding(r, FindingNoInstrument, tr.ID) == nil {
