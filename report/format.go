@@ -2,7 +2,6 @@ package report
 
 import (
 	"math"
-	"strconv"
 	"strings"
 	"time"
 
@@ -23,37 +22,7 @@ func formatNumber(v float64, dec int, si bool) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return dash
 	}
-	s := strconv.FormatFloat(v, 'f', dec, 64)
-	neg := strings.HasPrefix(s, "-")
-	if neg {
-		s = s[1:]
-		if strings.Trim(s, "0.") == "" {
-			neg = false
-		}
-	}
-	whole, frac, _ := strings.Cut(s, ".")
-	sep, from := ",", 4
-	if si {
-		sep, from = "\u00a0", 5
-	}
-	if len(whole) >= from {
-		var b strings.Builder
-		for i, c := range whole {
-			if i > 0 && (len(whole)-i)%3 == 0 {
-				b.WriteString(sep)
-			}
-			b.WriteRune(c)
-		}
-		whole = b.String()
-	}
-	if frac != "" {
-		whole += "." + frac
-	}
-	if neg {
-		// A true minus sign: a hyphen reads as a dash in a table.
-		whole = "\u2212" + whole
-	}
-	return whole
+	return schema.FormatNumber(v, dec, si)
 }
 
 // units formats the job's figures with the decimals each kind deserves.

@@ -337,8 +337,8 @@ func TestResNum(t *testing.T) {
 		want string
 	}{{1240, 0, false, "1,240"}, {1234567.891, 1, false, "1,234,567.9"}, {-4006.4, 0, false, "−4,006"},
 		{9999, 0, true, "9999"}, {12400, 0, true, "12\u00a0400"}, {-0.0001, 2, false, "0.00"}} {
-		if got := resNum(c.v, c.d, c.si); got != c.want {
-			t.Errorf("resNum(%v, %d, %v) = %q, want %q", c.v, c.d, c.si, got, c.want)
+		if got := FormatNumber(c.v, c.d, c.si); got != c.want {
+			t.Errorf("FormatNumber(%v, %d, %v) = %q, want %q", c.v, c.d, c.si, got, c.want)
 		}
 	}
 }

@@ -7,10 +7,11 @@ import (
 	"fieldtab/measure"
 )
 
-// resNum formats v with d decimals for findings and notes, grouping thousands
-// as the report does: commas in IP ("1,240"), no-break spaces in SI from
-// 10 000 ("12 400"; SI style leaves four digits whole).
-func resNum(v float64, d int, si bool) string {
+// FormatNumber formats v with d decimals as findings, notes and the report
+// print figures: thousands grouped with commas in IP ("1,240"), with no-break
+// spaces in SI from 10 000 ("12 400"; SI style leaves four digits whole), and
+// a true minus sign. Negative zero prints as 0.
+func FormatNumber(v float64, d int, si bool) string {
 	s := strconv.FormatFloat(v, 'f', d, 64)
 	neg := strings.HasPrefix(s, "-")
 	if neg {
@@ -38,13 +39,14 @@ func resNum(v float64, d int, si bool) string {
 		whole += "." + frac
 	}
 	if neg {
-		whole = "−" + whole
+		// A true minus sign: a hyphen reads as a dash in a table.
+		whole = "\u2212" + whole
 	}
 	return whole
 }
 
 // num formats v with d decimals in the job's style.
-func (c *resultsCalc) num(v float64, d int) string { return resNum(v, d, c.u == measure.SI) }
+func (c *resultsCalc) num(v float64, d int) string { return FormatNumber(v, d, c.u == measure.SI) }
 
 // numU is num with its unit after a space: "1,240 cfm".
 func (c *resultsCalc) numU(v float64, d int, unit string) string { return c.num(v, d) + " " + unit }

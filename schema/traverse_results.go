@@ -63,7 +63,7 @@ type traverseStage struct {
 func traverseUncertaintyNote(instKnown bool) string {
 	note := fmt.Sprintf("± is the instruments' stated accuracy carried through each point's velocity and the mean, "+
 		"combined root-sum-square with the traverse method's own ±%s %% (the pitot-velocity accuracy a trade certifying body requires, 2024)",
-		resNum(measure.TraverseMethodUncertaintyPct, 0, false))
+		FormatNumber(measure.TraverseMethodUncertaintyPct, 0, false))
 	if !instKnown {
 		note += "; some points have no instrument accuracy on record, so the ± leaves them out"
 	}
