@@ -255,26 +255,34 @@ func (db *DB) Job(ctx context.Context, id string) (Job, error) {
 
 // Jobs returns every job, the most recently created first.
 func (db *DB) Jobs(ctx context.Context) ([]Job, error) {
-	jobs := []Job{}
+	var jobs []Job
 	err := db.readTx(ctx, func(tx *sql.Tx) error {
-		rows, err := tx.QueryContext(ctx, "SELECT id, data, seq, created_at, updated_at FROM jobs ORDER BY created_at DESC, id")
-		if err != nil {
-			return err
-		}
-		defer rows.Close()
-		for rows.Next() {
-			j, err := scanJob(rows, nil)
-			if err != nil {
-				return err
-			}
-			jobs = append(jobs, j)
-		}
-		return rows.Err()
+		var err error
+		jobs, err = listJobs(ctx, tx)
+		return err
 	})
 	if err != nil {
 		return nil, wrapStore("jobs", err)
 	}
 	return jobs, nil
+}
+
+// listJobs reads every job in tx, the most recently created first.
+func listJobs(ctx context.Context, tx *sql.Tx) ([]Job, error) {
+	jobs := []Job{}
+	rows, err := tx.QueryContext(ctx, "SELECT id, data, seq, created_at, updated_at FROM jobs ORDER BY created_at DESC, id")
+	if err != nil {
+		return nil, err
+	}
+	defer rows.Close()
+	for rows.Next() {
+		j, err := scanJob(rows, nil)
+		if err != nil {
+			return nil, err
+		}
+		jobs = append(jobs, j)
+	}
+	return jobs, rows.Err()
 }
 
 // loadJob reads one job in tx; raw, when not nil, receives its data JSON.

@@ -38,20 +38,12 @@ const jobCountsQuery = `SELECT
 func (db *DB) JobSummaries(ctx context.Context) ([]JobSummary, error) {
 	out := []JobSummary{}
 	err := db.readTx(ctx, func(tx *sql.Tx) error {
-		rows, err := tx.QueryContext(ctx, "SELECT id, data, seq, created_at, updated_at FROM jobs ORDER BY created_at DESC, id")
+		jobs, err := listJobs(ctx, tx)
 		if err != nil {
 			return err
 		}
-		defer rows.Close()
-		for rows.Next() {
-			j, err := scanJob(rows, nil)
-			if err != nil {
-				return err
-			}
+		for _, j := range jobs {
 			out = append(out, JobSummary{Job: j})
-		}
-		if err := rows.Err(); err != nil {
-			return err
 		}
 		for i := range out {
 			c := &out[i].Counts
