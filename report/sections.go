@@ -217,9 +217,10 @@ func (d *doc) basis() {
 			"ISO 5802:2001) or equal areas (round ducts: US EPA Method 1, Table 1-2); each point's velocity from its velocity " +
 			"pressure at the air's density in the duct, and the velocities averaged, not the pressures. A traverse's ± is the " +
 			"manometer's stated accuracy (% of reading and absolute) carried through each point's velocity and the mean, combined " +
-			"root-sum-square with the method's own ±" + d.u.pct(measure.TraverseMethodUncertaintyPct) + " of flow: the pitot-velocity " +
-			"accuracy a trade certifying body requires of its members' instruments (published requirements, 2024), taken as a " +
-			"field plane's own uncertainty (ISO 3966 claims about ±2 % only under its straight-duct conditions). Where two readings of one " +
+			"root-sum-square with the method's own ±" + d.u.pct(measure.TraverseMethodUncertaintyPct) + " of flow, common practice for " +
+			"a field plane (the same figure a trade certifying body requires of pitot-velocity instruments; ISO 3966 claims about ±2 % " +
+			"only under its straight-duct conditions). The status is judged with the instruments' accuracy alone, as an outlet's is: " +
+			"the fan tolerance band itself allows for the method. Where two readings of one " +
 			"point and stage each count, the traverse shows them as conflicting and computes no flow for that stage.",
 		"Outlets and traverses: where every supply (or exhaust) outlet of a system is read and the system has a traverse, " +
 			"their sum is compared with the traverse under the fan tolerance, with both figures' ±.",

@@ -55,14 +55,17 @@ type traverseStage struct {
 	warnings  []string
 	tr        measure.TraverseResult
 	computed  bool
-	unc       float64 // ± flow, job air-flow units
+	unc       float64 // ± flow, job air-flow units: instruments and method
+	instUnc   float64 // the instruments' part of unc, which the status is judged with
 	instKnown bool    // every point's instrument accuracy is on record
 }
 
 // traverseUncertaintyNote says what a traverse's ± is made of.
 func traverseUncertaintyNote(instKnown bool) string {
 	note := fmt.Sprintf("± is the instruments' stated accuracy carried through each point's velocity and the mean, "+
-		"combined root-sum-square with the traverse method's own ±%s %% (the pitot-velocity accuracy a trade certifying body requires, 2024)",
+		"combined root-sum-square with the traverse method's own ±%s %% (common practice for a field traverse; the same figure a trade "+
+		"certifying body requires of pitot-velocity instruments). The status is judged with the instruments' accuracy alone, as an "+
+		"outlet's is: the tolerance band itself allows for the method",
 		FormatNumber(measure.TraverseMethodUncertaintyPct, 0, false))
 	if !instKnown {
 		note += "; some points have no instrument accuracy on record, so the ± leaves them out"
@@ -232,7 +235,7 @@ func (c *resultsCalc) traverseStage(layout measure.TraverseLayout, pts []measure
 	// it, so the two combine root-sum-square.
 	inst := measure.VolumeFlow(sumDV / float64(n) * float64(tr.Area)).AirIn(c.u)
 	method := tr.Flow.AirIn(c.u) * measure.TraverseMethodUncertaintyPct / 100
-	st.unc = math.Hypot(inst, method)
+	st.unc, st.instUnc = math.Hypot(inst, method), inst
 	return st
 }
 
@@ -262,7 +265,7 @@ func (c *resultsCalc) traverseAsFound(t *Traverse, layout measure.TraverseLayout
 	out.MeanVelocity = resPtr(st.tr.MeanVelocity.In(c.u))
 	out.Flow = resPtr(st.tr.Flow.AirIn(c.u))
 	out.FlowUncertainty = resPtr(st.unc)
-	tol, err := c.traverseTolerance(t.SystemID, *out.Flow, st.unc, st.instKnown)
+	tol, err := c.traverseTolerance(t.SystemID, *out.Flow, st.instUnc, st.instKnown)
 	if err != nil {
 		out.Errors = append(out.Errors, resErr("tolerance", err))
 	}
@@ -316,7 +319,9 @@ func (c *resultsCalc) traverseReadings(t *Traverse, layout measure.TraverseLayou
 			res.Warnings = append(res.Warnings, w)
 		}
 	}
-	pct := st.unc / *res.Flow * 100
+	// What the traverse's flow carries into statuses elsewhere (the system's
+	// airflow, a capacity test) is the instruments' part, as for its own.
+	pct := st.instUnc / *res.Flow * 100
 	if *res.Flow <= 0 {
 		pct = 0
 	}
@@ -324,7 +329,7 @@ func (c *resultsCalc) traverseReadings(t *Traverse, layout measure.TraverseLayou
 	if _, ok := c.sysTrav[t.SystemID]; !ok {
 		c.sysTrav[t.SystemID] = tf
 	}
-	tol, err := c.traverseTolerance(t.SystemID, *res.Flow, st.unc, st.instKnown)
+	tol, err := c.traverseTolerance(t.SystemID, *res.Flow, st.instUnc, st.instKnown)
 	if err != nil {
 		res.Errors = append(res.Errors, resErr("tolerance", err))
 	}
