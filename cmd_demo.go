@@ -63,10 +63,10 @@ type demoLoader struct {
 
 // day returns a time on the crew's first (as found) or second (final) day.
 func (l *demoLoader) day(d int, minutes int) time.Time {
-	start := l.now.Add(-50 * time.Hour)
-	if d == 2 {
-		start = l.now.Add(-26 * time.Hour)
-	}
+	// A site day starts at 07:00: day 1 the day before yesterday, day 2
+	// yesterday, so every reading is in the past and in working hours.
+	y, m, dd := l.now.UTC().Date()
+	start := time.Date(y, m, dd, 7, 0, 0, 0, time.UTC).AddDate(0, 0, d-3)
 	return start.Add(time.Duration(minutes) * time.Minute)
 }
 
@@ -146,32 +146,33 @@ func (l *demoLoader) instruments() error {
 
 func (l *demoLoader) systems() error {
 	l.sys = map[string]*schema.System{}
-	// Nameplates are of an invented maker; each drive's pitch diameters agree
-	// with its speeds (fan rpm = motor rpm × motor pitch ÷ fan pitch).
+	// Nameplates are of an invented maker; each drive's pitch diameters are
+	// the ones the crew measures (demoFans) and agree with its speeds (fan rpm
+	// = motor rpm × motor pitch ÷ fan pitch).
 	rtu := func(airflow, oa, fanRPM, motorPitch float64, serial string) schema.SystemDesign {
 		return schema.SystemDesign{Airflow: airflow, OutdoorAir: oa, ExternalStatic: 0.8, RatedTotal: 120_000,
 			RatedSensible: 86_400, MotorHP: 3, FLA: 4.8, Volts: 460, Phase: 3, FanRPM: fanRPM, MotorRPM: 1760,
 			PerfTableCSV: demoPerfTable,
 			Make:         demoMaker, Model: "QR-10 (demo)", Serial: serial, MotorMake: demoMotorMaker, MotorFrame: "182T", ServiceFactor: 1.15,
-			FanSheaveSize: "1-groove B, fixed", FanSheavePitch: 9, MotorSheaveSize: "1-groove B, adjustable", MotorSheavePitch: motorPitch,
+			FanSheaveSize: "1-groove B, fixed", FanSheavePitch: 6.9, MotorSheaveSize: "1-groove B, adjustable", MotorSheavePitch: motorPitch,
 			Belts: "1 × B51", FanBushing: "1 3/16 in bore", MotorBushing: "1 1/8 in bore", Filters: "8 × 20×25×2 MERV 8"}
 	}
 	for _, s := range []schema.System{
-		{Tag: "RTU-1", Kind: "rooftop_unit", Name: "Library, ground floor", Location: "Roof, east end", Design: rtu(4000, 800, 1150, 5.9, "QR10-0417-A")},
-		{Tag: "RTU-2", Kind: "rooftop_unit", Name: "Clinic, level 2", Location: "Roof, west end", Design: rtu(3800, 950, 1120, 5.7, "QR10-0418-A"),
+		{Tag: "RTU-1", Kind: "rooftop_unit", Name: "Library, ground floor", Location: "Roof, east end", Design: rtu(4000, 800, 1150, 4.5, "QR10-0417-A")},
+		{Tag: "RTU-2", Kind: "rooftop_unit", Name: "Clinic, level 2", Location: "Roof, west end", Design: rtu(3800, 950, 1120, 4.4, "QR10-0418-A"),
 			Remarks: "Condenser coil fins bent on the north face; reported to the contractor"},
 		{Tag: "AHU-1", Kind: "air_handler", Name: "Level 3: community hall and reading rooms", Location: "Level 3 mechanical room",
 			Design: schema.SystemDesign{Airflow: 6000, OutdoorAir: 1500, ExternalStatic: 1.5, RatedTotal: 216_000,
 				RatedSensible: 160_000, MotorHP: 7.5, FLA: 11, Volts: 460, Phase: 3, FanRPM: 1250, MotorRPM: 1765,
 				Make: demoMaker, Model: "MA-60 (demo)", Serial: "MA60-1123-C", MotorMake: demoMotorMaker, MotorFrame: "213T", ServiceFactor: 1.15,
-				FanSheaveSize: "2-groove B, fixed", FanSheavePitch: 11, MotorSheaveSize: "2-groove B, adjustable", MotorSheavePitch: 7.8,
+				FanSheaveSize: "2-groove B, fixed", FanSheavePitch: 8.4, MotorSheaveSize: "2-groove B, adjustable", MotorSheavePitch: 5.9,
 				Belts: "2 × B60 (matched set)", FanBushing: "1 7/16 in bore", MotorBushing: "1 3/8 in bore", Filters: "12 × 24×24×2 MERV 13"},
 			Remarks: "Fan section door sticks; use the side access door"},
 		{Tag: "EF-1", Kind: "fan", Name: "Toilet and utility exhaust", Location: "Roof, centre",
 			Design: schema.SystemDesign{Airflow: 1100, ExternalStatic: 0.5, MotorHP: 1, FLA: 2.1, Volts: 460, Phase: 3,
 				FanRPM: 1050, MotorRPM: 1725,
 				Make: demoMaker, Model: "UX-12 (demo)", Serial: "UX12-0932-B", MotorMake: demoMotorMaker, MotorFrame: "56", ServiceFactor: 1.25,
-				FanSheaveSize: "1-groove A, fixed", FanSheavePitch: 6, MotorSheaveSize: "1-groove A, adjustable", MotorSheavePitch: 3.65,
+				FanSheaveSize: "1-groove A, fixed", FanSheavePitch: 5.1, MotorSheaveSize: "1-groove A, adjustable", MotorSheavePitch: 3.1,
 				Belts: "1 × A38", FanBushing: "1 in bore", MotorBushing: "5/8 in bore"}},
 	} {
 		s.JobID = l.job.ID
@@ -441,7 +442,7 @@ func (l *demoLoader) tests() error {
 		if err := schema.Create(ctx, db, demoActor, ct); err != nil {
 			return fmt.Errorf("demo capacity test %s: %w", ct.Tag, err)
 		}
-		at := l.now.Add(-time.Duration(5-i) * time.Hour)
+		at := l.day(2, 420+40*i)
 		s := states[i]
 		for k, q := range []string{"enter_db", "enter_wb", "leave_db", "leave_wb", "outdoor_db"} {
 			note := ""
@@ -454,18 +455,18 @@ func (l *demoLoader) tests() error {
 	}
 
 	waters := []*schema.WaterTest{
-		{JobID: l.job.ID, SystemID: l.sys["AHU-1"].ID, Tag: "CHW coil AHU-1", Mode: "cooling", FlowSource: "valve", ValveCv: 12.5, Fluid: "water",
+		{JobID: l.job.ID, SystemID: l.sys["AHU-1"].ID, Tag: "CHW coil AHU-1", Mode: "cooling", FlowSource: "valve", ValveCv: 21, Fluid: "water",
 			DesignFlow: 40, CapacityTest: caps[2].ID},
 		{JobID: l.job.ID, SystemID: l.sys["AHU-1"].ID, Tag: "HW coil AHU-1", Mode: "heating", FlowSource: "valve", ValveCv: 6.3, Fluid: "water",
 			DesignFlow: 18, Remarks: "Balancing valve above the corridor ceiling by room 305; ladder needed"},
 	}
 	// ΔP across the balancing valve (psi), entering and leaving water (°F).
-	water := [][3]float64{{10.2, 44.2, 56.0}, {8.0, 180.5, 160.2}}
+	water := [][3]float64{{3.6, 44.2, 56.0}, {8.0, 180.5, 160.2}}
 	for i, wt := range waters {
 		if err := schema.Create(ctx, db, demoActor, wt); err != nil {
 			return fmt.Errorf("demo water test %s: %w", wt.Tag, err)
 		}
-		at := l.now.Add(-time.Duration(3-i) * time.Hour)
+		at := l.day(2, 560+30*i)
 		for k, q := range []struct{ qty, unit string }{{"dp", schema.UnitPsi}, {"enter_temp", schema.UnitDegF}, {"leave_temp", schema.UnitDegF}} {
 			l.read(schema.SubjectWaterTest, wt.ID, q.qty, 0, water[i][k], q.unit, schema.StageFinal, "Hydronic 1", techC,
 				at.Add(time.Duration(k)*3*time.Minute), "")
