@@ -5,6 +5,7 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/chromedp/chromedp"
 
@@ -110,6 +111,8 @@ func TestBrowserSetupJob(t *testing.T) {
 	if job.Name != "Harbour Clinic" || job.ProjectNumber != "HC-2291" || job.Units != "ip" || job.Barometric == nil || *job.Barometric != 14.2 || job.Elevation != nil {
 		t.Errorf("stored job %+v; want the form's name, project number, IP units and 14.2 psia with no elevation", job)
 	}
+	// The crew phone that joined before the job existed finds it without a reload.
+	tech.waitFor("the crew phone to open the new job by itself", q("[data-test=job-home]"), 20*time.Second)
 	if job.Tolerances != schema.DefaultTolerances() {
 		t.Errorf("stored tolerances %+v; want the defaults %+v the form showed", job.Tolerances, schema.DefaultTolerances())
 	}

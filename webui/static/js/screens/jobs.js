@@ -3,6 +3,8 @@
 
 import { h, message } from '../ui.js';
 
+let recheck = 0; // the next look for jobs while the list is empty
+
 export async function render(ctx) {
   const { api, store } = ctx;
   let jobs = store.metaSync('jobs') || [];
@@ -32,6 +34,12 @@ export async function render(ctx) {
   const lead = ctx.role === 'lead';
   // An empty store: the lead starts the first job right here.
   if (!jobs.length && lead && !problem) return (await import('./edit.js')).render(ctx);
+  clearTimeout(recheck);
+  if (!jobs.length) {
+    // A crew phone that joined before the lead made the job looks again, so
+    // the job opens here without a reload.
+    recheck = setTimeout(() => { if (/^(#\/?(jobs)?)?$/.test(location.hash)) ctx.rerender(); }, 5000);
+  }
   return h('div', { 'data-test': 'jobs' },
     h('div', { class: 'screen-head' }, h('h1', {}, 'Jobs')),
     problem ? message(jobs.length ? 'info' : 'error', problem) : null,
