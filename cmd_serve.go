@@ -110,6 +110,10 @@ func (m *Main) runServe(ctx context.Context, args []string, demo bool) error {
 		return err
 	}
 	srv.SetLANAddrs(joinAddrs(*addr, srv.Port()))
+	if loopbackOnly(*addr) {
+		srv.SetJoinNote(fmt.Sprintf("fieldtab listens only on this computer (--addr %s), so no phone can reach it: "+
+			"restart serve without --addr, or with this computer's network address", *addr))
+	}
 	m.printJoinInfo(srv, db.Path)
 	<-ctx.Done()
 	fmt.Fprintln(m.Stdout, "Shutting down: finishing requests in flight…")
@@ -122,10 +126,14 @@ func (m *Main) runServe(ctx context.Context, args []string, demo bool) error {
 func (m *Main) printJoinInfo(srv *server.Server, dbPath string) {
 	port := srv.Port()
 	fmt.Fprintf(m.Stdout, "fieldtab is serving the store %s\n", dbPath)
-	fmt.Fprintln(m.Stdout, "Open the field app on a phone or tablet on the same network at:")
-	fmt.Fprintf(m.Stdout, "  http://localhost:%d/\n", port)
-	for _, hp := range srv.LANAddrs() {
-		fmt.Fprintf(m.Stdout, "  http://%s/\n", hp)
+	if lan := srv.LANAddrs(); len(lan) > 0 {
+		fmt.Fprintln(m.Stdout, "Open the field app on a phone or tablet on the same network at:")
+		for _, hp := range lan {
+			fmt.Fprintf(m.Stdout, "  http://%s/\n", hp)
+		}
+		fmt.Fprintf(m.Stdout, "and on this computer at http://localhost:%d/\n", port)
+	} else {
+		fmt.Fprintf(m.Stdout, "Open the field app on this computer at http://localhost:%d/ (no phone can reach this address)\n", port)
 	}
 	lead, leadExp, err1 := srv.NewJoinCode(schema.RoleLead)
 	crew, crewExp, err2 := srv.NewJoinCode(schema.RoleTechnician)
@@ -136,6 +144,9 @@ func (m *Main) printJoinInfo(srv *server.Server, dbPath string) {
 	fmt.Fprintf(m.Stdout, "Lead join code:  %s  (one device, until %s)\n", lead, leadExp.Local().Format("15:04"))
 	fmt.Fprintf(m.Stdout, "Crew join code:  %s  (any number of devices, until %s)\n", crew, crewExp.Local().Format("15:04"))
 	if urls, note := server.JoinURLs("", srv.LANAddrs()); len(urls) == 0 {
+		if loopbackOnly(srv.Addr) {
+			note = "fieldtab listens only on this computer, so no phone can reach it: restart serve without --addr, or with this computer's network address"
+		}
 		fmt.Fprintln(m.Stdout, "No join link: "+note+".")
 	} else {
 		m.printQR("Scan to join the crew", server.JoinLink(urls[0], crew))
@@ -151,6 +162,17 @@ func (m *Main) printQR(what, link string) {
 	}
 }
 
+// loopbackOnly reports whether a server listening at addr (host:port) answers
+// on this computer only.
+func loopbackOnly(addr string) bool {
+	host, _, err := net.SplitHostPort(addr)
+	if err != nil {
+		return false
+	}
+	ip := net.ParseIP(host)
+	return (ip != nil && ip.IsLoopback()) || strings.EqualFold(host, "localhost")
+}
+
 // joinAddrs are the host:port addresses phones can reach a server on that
 // listens at addr (host:port) on port: the one address it is bound to, or
 // every LAN address when it listens on all of them. A loopback bind has none.
@@ -158,7 +180,7 @@ func joinAddrs(addr string, port int) []string {
 	hosts := lanAddresses()
 	if host, _, err := net.SplitHostPort(addr); err == nil && host != "" && host != "0.0.0.0" && host != "::" {
 		hosts = []string{host} // bound to one address: only that one answers
-		if ip := net.ParseIP(host); (ip != nil && ip.IsLoopback()) || strings.EqualFold(host, "localhost") {
+		if loopbackOnly(addr) {
 			hosts = nil
 		}
 	}

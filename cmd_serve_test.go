@@ -271,3 +271,40 @@ func TestBackupCommand(t *testing.T) {
 		t.Error("a second backup over an existing file succeeded; it must refuse")
 	}
 }
+
+// TestServeLoopbackBanner: a server bound to 127.0.0.1 says that phones
+// cannot reach it, instead of offering localhost as their address.
+func TestServeLoopbackBanner(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	pr, pw := io.Pipe()
+	m := NewMain(strings.NewReader(""), pw, io.Discard)
+	done := make(chan error, 1)
+	go func() {
+		done <- m.Run(ctx, []string{"serve", "--db", filepath.Join(t.TempDir(), "site.db"), "--addr", "127.0.0.1:0",
+			"--signer-dir", t.TempDir()})
+		pw.Close()
+	}()
+	var banner strings.Builder
+	sc := bufio.NewScanner(pr)
+	for sc.Scan() {
+		banner.WriteString(sc.Text() + "\n")
+		if strings.HasPrefix(sc.Text(), "Safety:") {
+			break
+		}
+	}
+	cancel()
+	go io.Copy(io.Discard, pr) // the shutdown line
+	if err := <-done; err != nil {
+		t.Fatal(err)
+	}
+	out := banner.String()
+	for _, want := range []string{"no phone can reach this address", "No join link: fieldtab listens only on this computer"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("the banner lacks %q:\n%s", want, out)
+		}
+	}
+	if strings.Contains(out, "on a phone or tablet on the same network at:\n  http://localhost") {
+		t.Errorf("the banner offers localhost to phones:\n%s", out)
+	}
+}

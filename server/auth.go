@@ -220,7 +220,7 @@ func (s *Server) handleJoinCodeCreate(w http.ResponseWriter, r *http.Request) {
 	urls, note := JoinURLs(r.Host, s.LANAddrs())
 	out := map[string]any{"code": code, "role": req.Role, "expires_at": expires, "join_urls": []string{}}
 	if len(urls) == 0 {
-		out["join_url"], out["join_url_note"] = "", note
+		out["join_url"], out["join_url_note"] = "", s.joinNoteOr(note)
 		writeJSON(w, http.StatusCreated, out)
 		return
 	}

@@ -184,3 +184,38 @@ func TestBrowserJobNewToSignedReport(t *testing.T) {
 	}
 	lead.checkConsole(false)
 }
+
+// TestBrowserLeadJoinCode: the lead's new join code shows a link a phone can
+// reach with its QR code, or, with none, says why in words (and never prints
+// "null" where the QR code would be).
+func TestBrowserLeadJoinCode(t *testing.T) {
+	app := startApp(t)
+	job := makeBrowserJob(t, app.db, 1)
+	code, _, err := app.srv.NewJoinCode("lead")
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := newPage(t, app)
+	p.navigate("/#join=" + strings.ReplaceAll(code, "-", ""))
+	p.wait("the join code", joinCodeIs(strings.ReplaceAll(code, "-", "")))
+	p.typeInto("[data-test=device-name]", "Lead tablet")
+	p.click("[data-test=join-submit]")
+	p.waitSel("[data-test=job-home]")
+	p.goHash("#/job/" + job.job + "/lead")
+
+	// The test server listens on 127.0.0.1 only: no link, and the reason.
+	app.srv.SetJoinNote("fieldtab listens only on this computer")
+	p.click("[data-test=new-join-code]")
+	p.wait("the code and the reason for no link", q("[data-test=join-url]")+" && "+q("[data-test=join-url]")+
+		".textContent.includes('listens only on this computer')")
+	if box := p.text("[data-test=join-code-box]"); strings.Contains(box, "null") || p.count("[data-test=join-qr]") != 0 {
+		t.Errorf("with no link the code box shows %q and %d QR codes", box, p.count("[data-test=join-qr]"))
+	}
+
+	// With a LAN address, the link uses it and its QR code is drawn.
+	app.srv.SetLANAddrs([]string{"192.0.2.10:8470"})
+	p.click("[data-test=new-join-code]")
+	p.wait("the LAN link", q("[data-test=join-url]")+".textContent.startsWith('http://192.0.2.10:8470/#join=')")
+	p.waitSel("[data-test=join-qr]")
+	p.screenshots("lead-join-code", "[data-test=join-code-box]")
+}

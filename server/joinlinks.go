@@ -17,6 +17,19 @@ func (s *Server) SetLANAddrs(addrs []string) {
 	s.lanAddrs.Store(&c)
 }
 
+// SetJoinNote sets what a join code's answer says instead of a link when no
+// address is reachable, for a server that knows why (it listens on loopback
+// only); the default is NoLANNote.
+func (s *Server) SetJoinNote(note string) { s.joinNote.Store(&note) }
+
+// joinNoteOr returns the note SetJoinNote set, or def.
+func (s *Server) joinNoteOr(def string) string {
+	if p := s.joinNote.Load(); p != nil && *p != "" {
+		return *p
+	}
+	return def
+}
+
 // LANAddrs returns what SetLANAddrs set.
 func (s *Server) LANAddrs() []string {
 	if p := s.lanAddrs.Load(); p != nil {

@@ -110,6 +110,15 @@ func TestJoinCodeLinks(t *testing.T) {
 		// The code itself still pairs a device.
 		want(t, ts.do(t, "POST", "/pair", "", map[string]string{"code": out["code"].(string), "name": "Phone"}), 201, "")
 	})
+	t.Run("OKLoopbackOnlySaysWhy", func(t *testing.T) {
+		// serve --addr 127.0.0.1:… has LAN addresses, but none answers.
+		ts.SetLANAddrs(nil)
+		ts.SetJoinNote("fieldtab listens only on this computer")
+		out := joinCodeVia(t, ts, "localhost:8470")
+		if out["join_url"] != "" || out["join_url_note"] != "fieldtab listens only on this computer" {
+			t.Errorf("loopback only: %v", out)
+		}
+	})
 }
 
 // A code made through a second handle on the store file, as `fieldtab

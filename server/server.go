@@ -38,6 +38,7 @@ type Server struct {
 	// lanAddrs are the host:port addresses where phones on the site network
 	// reach this server (SetLANAddrs); join links use them.
 	lanAddrs atomic.Pointer[[]string]
+	joinNote atomic.Pointer[string] // why there is no join link, when the caller knows better (SetJoinNote)
 
 	ln      net.Listener
 	srv     *http.Server

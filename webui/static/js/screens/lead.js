@@ -20,14 +20,17 @@ function joinCodeCard(ctx) {
     clear(out);
     if (!lastCode) return;
     const code = lastCode.code || '';
-    out.append(
+    const link = lastCode.join_url;
+    // Append ignores no null: a missing QR code must not print "null".
+    out.append(...[
       h('p', { class: 'codebox', 'data-test': 'join-code-text' }, code),
-      h('p', {}, `${kindWord(lastCode.role || '')} code, valid until ${timeText(lastCode.expires_at)}. Scan the QR code or open:`),
-      h('p', { class: 'small', 'data-test': 'join-url' }, lastCode.join_url || lastCode.join_url_note || ''),
-      lastCode.qr_png ? h('img', {
+      h('p', {}, `${kindWord(lastCode.role || '')} code, valid until ${timeText(lastCode.expires_at)}.` +
+        (link ? ' Scan the QR code or open:' : ' There is no join link to scan:')),
+      h('p', { class: link ? 'small' : 'msg msg-error', 'data-test': 'join-url' }, link || lastCode.join_url_note || ''),
+      link && lastCode.qr_png ? h('img', {
         class: 'qr', 'data-test': 'join-qr', alt: `QR code of the join address for code ${code}`,
         src: `data:image/png;base64,${lastCode.qr_png}`, width: '220', height: '220',
-      }) : null);
+      }) : null].filter(Boolean));
   };
   const err = h('p', { class: 'msg msg-error', role: 'alert', hidden: true });
   const btn = button('New join code', { 'data-test': 'new-join-code' }, async () => {
