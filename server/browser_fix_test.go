@@ -208,6 +208,8 @@ func TestBrowserOutletCorrections(t *testing.T) {
 	p.typeInto("[data-test=fix-note]", "read with the damper still moving")
 	p.click("[data-test=fix-save]")
 	app.waitAtLeast(job.job, 4)
+	// The line under Save no longer waits for the voided reading's result.
+	p.wait("no wait for a voided reading's result", "!document.querySelector('[data-test=outlet-latest][data-status=waiting]')")
 	// And the as-found correction corrected again from the history.
 	p.click(fmt.Sprintf("[data-test=history-item][data-id=%q] [data-test=correct]", second.ID))
 	p.typeInto("[data-test=fix-value]", "250")

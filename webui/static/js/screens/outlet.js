@@ -46,6 +46,9 @@ function latestLine(ctx, o, n, entry, inView) {
   if (!n || Date.now() - n.at > 120000 || (entry && entry.state === 'rejected')) return null;
   const r = o[n.stage];
   const done = r && (r.reading_id === n.entryId || (!entry && inView.has(r.reading_id)));
+  // Sent, in the view's past, and no longer a current reading: corrected or
+  // voided since, so there is no result of it to wait for.
+  if (!done && !entry && !inView.has(n.entryId)) return null;
   const u = (ctx.view.results.units || {}).air_flow || '';
   return h('div', { class: 'latest', 'data-test': 'outlet-latest', 'data-status': done ? r.status : 'waiting' },
     done
