@@ -1,0 +1,76 @@
+package server
+
+// The app's safety cautions where the work can hurt someone: a roof caution
+// for a fan whose location is a roof (not only a rooftop unit), a pump's
+// closed-valve caution, the electrical caution's wording, and the fan
+// screen's line-to-line volts. The harness is in browser_test.go.
+
+import (
+	"context"
+	"strings"
+	"testing"
+
+	"fieldtab/schema"
+)
+
+func TestBrowserFanCautions(t *testing.T) {
+	app := startApp(t)
+	ctx := context.Background()
+	lead := schema.Actor{Name: "Lead", Role: schema.RoleLead}
+	must := func(err error) {
+		t.Helper()
+		if err != nil {
+			t.Fatalf("fixture: %v", err)
+		}
+	}
+	j := &schema.Job{Name: "Alder Street Offices", Units: "ip"}
+	must(app.db.CreateJob(ctx, lead, j))
+	ef := &schema.System{JobID: j.ID, Tag: "EF-1", Kind: "fan", Name: "Toilet exhaust", Location: "Roof, north",
+		Design: schema.SystemDesign{Airflow: 1200, Volts: 460, Phase: 3, FLA: 2.1, FanRPM: 1100}}
+	must(schema.Create(ctx, app.db, lead, ef))
+	pump := &schema.System{JobID: j.ID, Tag: "P-1", Kind: "pump", Name: "Chilled water", Location: "Plant room",
+		Design: schema.SystemDesign{WaterFlow: 40}}
+	must(schema.Create(ctx, app.db, lead, pump))
+	wt := &schema.WaterTest{JobID: j.ID, SystemID: pump.ID, Tag: "CHW main", Mode: "cooling", FlowSource: "meter", Fluid: "water", DesignFlow: 40}
+	must(schema.Create(ctx, app.db, lead, wt))
+
+	p := newPage(t, app)
+	p.join("Phone Cautions")
+	p.waitSel(tagSel("system", "EF-1"))
+	if got := p.attr(tagSel("system", "EF-1")+" [data-test=caution]", "data-kind"); got != "roof" {
+		t.Errorf("EF-1 (a fan, location Roof) shows caution %q on the job home, want roof", got)
+	}
+	if got := p.attr(tagSel("system", "P-1")+" [data-test=caution]", "data-kind"); got != "pump" {
+		t.Errorf("P-1 (a pump) shows caution %q on the job home, want pump", got)
+	}
+
+	p.goHash("#/job/" + j.ID + "/fan/" + ef.ID)
+	p.waitSel("[data-test=step-electrical]")
+	if got := p.attr("[data-test=fan-screen] [data-test=caution]", "data-kind"); got != "roof" {
+		t.Errorf("the fan screen's first caution is %q for a fan on the roof, want roof", got)
+	}
+	if got := p.text("[data-test=step-electrical] [data-test=caution]"); !strings.Contains(got, "NFPA 70E") || !strings.Contains(got, "arc-rated PPE") {
+		t.Errorf("the electrical caution reads %q; want covers opened under NFPA 70E or the local equivalent, with arc-rated PPE", got)
+	}
+	// Volts are read line to line, amps on each line.
+	label := func(test string) string {
+		return eval[string](p, "(() => { const i = "+q("[data-test="+test+"]")+"; const l = i && document.querySelector('label[for=\"' + i.id + '\"]'); return l ? l.textContent : ''; })()")
+	}
+	for test, want := range map[string]string{"q-volts-1": "L1–L2", "q-volts-2": "L2–L3", "q-volts-3": "L3–L1", "q-amps-1": "L1", "q-amps-3": "L3",
+		"q-static_supply": "Fan discharge static", "q-static_return": "Fan inlet (suction) static", "q-motor_sheave": "Motor sheave pitch diameter"} {
+		if got := label(test); got != want {
+			t.Errorf("field %s is labelled %q, want %q", test, got, want)
+		}
+	}
+	p.screenshots("fan-cautions", "[data-test=step-electrical]")
+
+	p.goHash("#/job/" + j.ID + "/water/" + wt.ID)
+	p.waitSel("[data-test=water-screen] [data-test=caution]")
+	if n := p.count("[data-test=water-screen] [data-test=caution][data-kind=pump]"); n != 1 {
+		t.Errorf("the pump's water test shows %d closed-valve cautions, want 1", n)
+	}
+	if got := p.text("[data-test=caution][data-kind=pump]"); !strings.Contains(got, "closed discharge valve") || !strings.Contains(got, "shut-off head") {
+		t.Errorf("the pump caution reads %q; want the closed discharge valve and shut-off head in words", got)
+	}
+	p.checkConsole(true)
+}
