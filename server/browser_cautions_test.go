@@ -9,6 +9,7 @@ import (
 	"context"
 	"strings"
 	"testing"
+	"time"
 
 	"fieldtab/schema"
 )
@@ -33,6 +34,30 @@ func TestBrowserFanCautions(t *testing.T) {
 	must(schema.Create(ctx, app.db, lead, pump))
 	wt := &schema.WaterTest{JobID: j.ID, SystemID: pump.ID, Tag: "CHW main", Mode: "cooling", FlowSource: "meter", Fluid: "water", DesignFlow: 40}
 	must(schema.Create(ctx, app.db, lead, wt))
+	hw := &schema.WaterTest{JobID: j.ID, SystemID: pump.ID, Tag: "HW main", Mode: "heating", FlowSource: "meter", Fluid: "water", DesignFlow: 40}
+	must(schema.Create(ctx, app.db, lead, hw))
+	// 40 gpm through 10 °F (chilled, warming) and 20 °F (heating, cooling):
+	// the first a cooling capacity, the second a heating one.
+	at := time.Now().Add(-10 * time.Minute)
+	var rs []schema.Reading
+	for _, x := range []struct {
+		id, q string
+		v     float64
+		u     string
+	}{{wt.ID, "flow", 40, schema.UnitGPM}, {wt.ID, "enter_temp", 44, schema.UnitDegF}, {wt.ID, "leave_temp", 54, schema.UnitDegF},
+		{hw.ID, "flow", 40, schema.UnitGPM}, {hw.ID, "enter_temp", 180, schema.UnitDegF}, {hw.ID, "leave_temp", 160, schema.UnitDegF}} {
+		at = at.Add(time.Second)
+		v := x.v
+		rs = append(rs, schema.Reading{ID: schema.NewID(), SubjectKind: schema.SubjectWaterTest, SubjectID: x.id, Quantity: x.q,
+			Value: &v, Unit: x.u, Stage: schema.StageFinal, TakenAt: at})
+	}
+	res, err := app.db.AddReadings(ctx, schema.Actor{Name: "Ivy"}, j.ID, rs)
+	must(err)
+	for i, r := range res {
+		if r.Status != "stored" {
+			t.Fatalf("fixture reading %d: %+v", i, r)
+		}
+	}
 
 	p := newPage(t, app)
 	p.join("Phone Cautions")
@@ -71,6 +96,25 @@ func TestBrowserFanCautions(t *testing.T) {
 	}
 	if got := p.text("[data-test=caution][data-kind=pump]"); !strings.Contains(got, "closed discharge valve") || !strings.Contains(got, "shut-off head") {
 		t.Errorf("the pump caution reads %q; want the closed discharge valve and shut-off head in words", got)
+	}
+
+	// Tons are for cooling only (a ton is 12,000 Btu/h of cooling); a heating
+	// capacity is in Btu/h and MBH.
+	p.wait("the chilled-water capacity", textHas("[data-test=water-capacity]", "MBH"))
+	if got := p.text("[data-test=water-capacity]"); !strings.Contains(got, "tons") {
+		t.Errorf("the chilled-water capacity reads %q, want tons beside the MBH", got)
+	}
+	p.goHash("#/job/" + j.ID + "/water/" + hw.ID)
+	p.wait("the heating-water test", q("[data-test=water-screen][data-tag="+js("HW main")+"]"))
+	p.wait("the heating capacity", textHas("[data-test=water-capacity]", "MBH"))
+	if got := p.text("[data-test=water-capacity]"); strings.Contains(got, "ton") || !strings.Contains(got, "heating") {
+		t.Errorf("the heating capacity reads %q, want Btu/h and MBH, no tons", got)
+	}
+	if got := p.attr("[data-test=water-screen] [data-test=caution]", "data-kind"); got != "hot_water" {
+		t.Errorf("the heating-water test's first caution is %q, want hot_water", got)
+	}
+	if n := p.count("[data-test=water-screen] [data-test=caution][data-kind=pump]"); n != 1 {
+		t.Errorf("the heating-water test on a pump shows %d closed-valve cautions, want 1", n)
 	}
 	p.checkConsole(true)
 }
