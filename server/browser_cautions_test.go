@@ -34,10 +34,13 @@ func TestBrowserFanCautions(t *testing.T) {
 	must(schema.Create(ctx, app.db, lead, pump))
 	wt := &schema.WaterTest{JobID: j.ID, SystemID: pump.ID, Tag: "CHW main", Mode: "cooling", FlowSource: "meter", Fluid: "water", DesignFlow: 40}
 	must(schema.Create(ctx, app.db, lead, wt))
+	ct := &schema.CapacityTest{JobID: j.ID, SystemID: ef.ID, Tag: "CT-EF", Mode: "cooling", FlowSource: "direct", FlowBasis: "leave"}
+	must(schema.Create(ctx, app.db, lead, ct))
 	hw := &schema.WaterTest{JobID: j.ID, SystemID: pump.ID, Tag: "HW main", Mode: "heating", FlowSource: "meter", Fluid: "water", DesignFlow: 40}
 	must(schema.Create(ctx, app.db, lead, hw))
-	// 40 gpm through 10 °F (chilled, warming) and 20 °F (heating, cooling):
-	// the first a cooling capacity, the second a heating one.
+	// A coil on the roof fan read with a direct airflow at leaving air; 40 gpm
+	// through 10 °F (chilled, warming) and 20 °F (heating, cooling): the
+	// first a cooling capacity, the second a heating one.
 	at := time.Now().Add(-10 * time.Minute)
 	var rs []schema.Reading
 	for _, x := range []struct {
@@ -45,10 +48,16 @@ func TestBrowserFanCautions(t *testing.T) {
 		v     float64
 		u     string
 	}{{wt.ID, "flow", 40, schema.UnitGPM}, {wt.ID, "enter_temp", 44, schema.UnitDegF}, {wt.ID, "leave_temp", 54, schema.UnitDegF},
+		{ct.ID, "enter_db", 80, schema.UnitDegF}, {ct.ID, "enter_wb", 67, schema.UnitDegF}, {ct.ID, "leave_db", 55, schema.UnitDegF},
+		{ct.ID, "leave_wb", 54, schema.UnitDegF}, {ct.ID, "flow", 1200, schema.UnitCFM},
 		{hw.ID, "flow", 40, schema.UnitGPM}, {hw.ID, "enter_temp", 180, schema.UnitDegF}, {hw.ID, "leave_temp", 160, schema.UnitDegF}} {
 		at = at.Add(time.Second)
 		v := x.v
-		rs = append(rs, schema.Reading{ID: schema.NewID(), SubjectKind: schema.SubjectWaterTest, SubjectID: x.id, Quantity: x.q,
+		kind := schema.SubjectWaterTest
+		if x.id == ct.ID {
+			kind = schema.SubjectCapacityTest
+		}
+		rs = append(rs, schema.Reading{ID: schema.NewID(), SubjectKind: kind, SubjectID: x.id, Quantity: x.q,
 			Value: &v, Unit: x.u, Stage: schema.StageFinal, TakenAt: at})
 	}
 	res, err := app.db.AddReadings(ctx, schema.Actor{Name: "Ivy"}, j.ID, rs)
@@ -88,6 +97,17 @@ func TestBrowserFanCautions(t *testing.T) {
 		}
 	}
 	p.screenshots("fan-cautions", "[data-test=step-electrical]")
+
+	// A capacity test of the roof fan: the roof caution, and the airflow's
+	// basis in words.
+	p.goHash("#/job/" + j.ID + "/capacity/" + ct.ID)
+	p.wait("the airflow and its basis", textHas("[data-test=capacity-airflow]", "cfm"))
+	if got := p.text("[data-test=capacity-airflow]"); !strings.Contains(got, "(leaving air)") {
+		t.Errorf("the capacity test's airflow reads %q, want it marked (leaving air)", got)
+	}
+	if got := p.attr("[data-test=capacity-screen] [data-test=caution]", "data-kind"); got != "roof" {
+		t.Errorf("the roof fan's capacity test shows caution %q, want roof", got)
+	}
 
 	p.goHash("#/job/" + j.ID + "/water/" + wt.ID)
 	p.waitSel("[data-test=water-screen] [data-test=caution]")

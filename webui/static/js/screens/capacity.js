@@ -66,7 +66,7 @@ export function render(ctx) {
     const basis = res.flow_basis ? ` (${BASIS[res.flow_basis] || res.flow_basis})` : '';
     return [
       h('div', { class: 'scr-status' }, badge(res.status)), sideLine(res, 'Delivered:'),
-      res.airflow !== undefined && row('Airflow', num(res.airflow, 0, U.air_flow) + basis),
+      res.airflow !== undefined && row('Airflow', num(res.airflow, 0, U.air_flow) + basis, 'capacity-airflow'),
       c && [row(`Total (${c.process})`, pm(c.total, u.total), 'capacity-total'), row('Sensible', pm(c.sensible, u.sensible), 'capacity-sensible'),
         row('Latent', power(c.latent, U.power, cool), 'capacity-latent'), row('Sensible heat ratio', num(c.shr, 2), 'capacity-shr')],
       e && row(`${ex} total (${EXPECTED[e.source] || e.source})`, power(e.total, U.power, ct.mode === 'cooling'), 'capacity-expected'),
