@@ -152,8 +152,14 @@ func (m *Main) printJoinInfo(srv *server.Server, dbPath string) {
 		m.printQR("Scan to join the crew", server.JoinLink(urls[0], crew))
 	}
 	fmt.Fprintln(m.Stdout, "New codes: fieldtab join-code --role lead|technician, or the app's lead screen.")
-	fmt.Fprintln(m.Stdout, "Safety: roof, ladder, rotating-equipment and live-electrical work follow the site's safety plan; fieldtab records readings, it does not make the work safe.")
+	fmt.Fprintln(m.Stdout, serveSafety)
 }
+
+// serveSafety is the banner's caution: the work that can hurt someone, and
+// who governs it.
+const serveSafety = "Safety: roof, ladder, rotating-equipment, live-electrical and hot-water work, and never running a pump against a closed discharge valve " +
+	"for more than a moment, follow the project specification, local codes, the site's safety plan and licensed practice; " +
+	"fieldtab records readings, it does not make the work safe."
 
 // printQR prints a join link and its QR code in the terminal.
 func (m *Main) printQR(what, link string) {

@@ -270,8 +270,9 @@ func (d *doc) basis() {
 	d.bullets([]string{
 		"Roofs and ladders: work at height needs fall protection and a safe means of access; keep clear of roof edges, skylights and openings.",
 		"Rotating equipment: lock out and tag out the drive before touching sheaves, belts or fans, and keep guards in place while it runs.",
-		"Live electrical readings (volts, amps) are for qualified people with suitable PPE and meters rated for the circuit.",
+		"Live electrical readings (volts, amps) are for qualified people with suitable PPE and meters rated for the circuit; panel and disconnect covers are opened only by a qualified person under the site's electrical safety rules (NFPA 70E or the local equivalent), with arc-rated PPE.",
 		"Hot water and steam: hydronic test ports and coils can scald; let pressure and temperature down before opening them.",
+		"Closed discharge valves: a pump must not run against a closed discharge valve (dead-head) for more than a moment; read shut-off head only as the pump maker and the project specification allow, then open the valve again (common practice).",
 		"Follow the site's safety rules and the project specification where they ask for more.",
 	}, sizeBody)
 }

@@ -37,13 +37,13 @@ func (d *doc) signoff() {
 	}
 	if s == nil {
 		line("Name", "")
-		line("Certification or licence no.", "")
-		line("Organisation", "")
+		line("Certification or license no.", "")
+		line("Firm", "")
 		line("Date", "")
 	} else {
 		line("Name", s.Name)
-		line("Certification or licence no.", orDash(s.Certification))
-		line("Organisation", orDash(s.Organisation))
+		line("Certification or license no.", orDash(s.Certification))
+		line("Firm", orDash(s.Organisation))
 		line("Date", d.dateTime(s.SignedAt))
 	}
 	d.setY(d.y() + 6)

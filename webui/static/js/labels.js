@@ -27,7 +27,7 @@ export const LABELS = {
     motor_sheave_pitch: 'Motor sheave pitch diameter', belts: 'Belts', fan_bushing: 'Fan bushing', motor_bushing: 'Motor bushing',
     filters: 'Filters',
   },
-  outlet: { kind: 'Kind of outlet', room: 'Room', size: 'Size', design_flow: 'Design airflow', method: 'Method', factor: 'Hood factor', ak: 'Ak (effective area)' },
+  outlet: { kind: 'Kind of outlet', room: 'Room', size: 'Size', design_flow: 'Design airflow', method: 'Method', factor: 'Hood correction factor', ak: 'Ak (effective area)' },
   traverse: {
     shape: 'Duct shape', method: 'Method', width: 'Duct width', height: 'Duct height', diameter: 'Duct diameter',
     points_w: 'Points per line', points_h: 'Lines', points_per_diameter: 'Points per diameter', diameters: 'Diameters',

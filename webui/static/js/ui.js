@@ -127,8 +127,8 @@ export const agreeText = (a, u) => `Outlets ${fmt(a.outlet_sum)} ${u}, traverse 
 // Cautions, one line each (a tap opens the rest), deferring to the site's rules.
 const DEFER = 'The project specification, local codes, the site safety plan and licensed practice govern; where they say more, follow them.';
 const CAUTIONS = {
-  electrical: ['Live electrical', 'qualified, PPE',
-    'Volts and amps on live circuits are taken only by a qualified person wearing suitable PPE, with the panel or disconnect cover opened as the site allows.'],
+  electrical: ['Live electrical', 'qualified person, arc-rated PPE',
+    'Volts and amps on live circuits are taken only by a qualified person; panel and disconnect covers are opened only by a qualified person under the site\'s electrical safety rules (NFPA 70E or the local equivalent), wearing arc-rated PPE and using a meter rated for the circuit.'],
   roof: ['Rooftop', 'use fall protection',
     'Use the fall protection the site requires, keep clear of roof edges, hatches and skylights, and do not carry instruments up a ladder in your hands.'],
   rotating: ['Belts and sheaves', 'lock out first',
@@ -137,9 +137,15 @@ const CAUTIONS = {
     'Hot water and steam piping, valves and test ports can burn and are under pressure. Let the system cool where the work allows, wear gloves and eye protection, and open test ports slowly.'],
   piping: ['Piping', 'under pressure, open slowly',
     'Lines and test ports are under pressure and may be hot. Wear eye protection and gloves and open test ports slowly.'],
+  pump: ['Pump', 'never against a closed valve',
+    'Do not run a pump against a closed discharge valve (dead-head) for more than a moment: the water in it heats fast and can damage the seal and the pump or burn you. Read shut-off head only as the pump maker and the project specification allow, then open the valve again at once (common practice). Lock out before touching the coupling or guard.'],
   ladder: ['Ladder', 'three points of contact',
     'Set the ladder on firm ground, keep three points of contact and one hand for the ladder; rest the hood or meter, do not reach.'],
 };
+
+// onRoof: a system whose work is at height on a roof, by its kind or its
+// location ("Roof", "roof curb, level 4").
+export const onRoof = (sys) => !!sys && (sys.kind === 'rooftop_unit' || /roof/i.test(sys.location || ''));
 
 export function caution(kind) {
   const [title, short, text] = CAUTIONS[kind] || ['Caution', '', ''];

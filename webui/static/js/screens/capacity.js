@@ -1,6 +1,6 @@
 // Capacity test: entering and leaving air, outdoor dry bulb, a direct airflow;
 // every figure and the chart's curves are the server's.
-import { h, caution, sideLine } from '../ui.js';
+import { h, caution, onRoof, sideLine } from '../ui.js';
 import { psychroChart, chartRange, loadChart, cachedChart } from '../chart.js';
 import {
   screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, badge, row, num,
@@ -13,6 +13,7 @@ const WORDS = {
   leave_db: 'leaving dry bulb', leave_wb: 'leaving wet bulb', leave_rh: 'leaving RH', leave_dp: 'leaving dew point',
   outdoor_db: 'outdoor dry bulb', flow: 'the airflow reading',
 };
+const BASIS = { standard: 'standard air', enter: 'entering air', leave: 'leaving air' };
 const EXPECTED = { perf_table: 'performance table', nameplate: 'nameplate rating' };
 const AIR_KINDS = ['psychrometer', 'hygrometer', 'thermometer'];
 
@@ -30,7 +31,7 @@ export function render(ctx) {
   const source = { traverse: `Airflow from traverse ${trv ? trv.tag : '(not found)'}`, outlets: `Airflow from the sum of ${sys ? sys.tag : 'the system'}'s supply outlets` }[ct.flow_source] || 'Airflow read directly';
 
   put(root, header(`Capacity test ${ct.tag}`, [sys && sys.tag, ct.mode && `${ct.mode} test`].filter(Boolean).join(' · ')),
-    sys && sys.kind === 'rooftop_unit' && caution('roof'),
+    onRoof(sys) && caution('roof'),
     h('p', { class: 'scr-duct', 'data-test': 'capacity-source' }, source + flow,
       trv && h('button', { type: 'button', class: 'btn scr-linkbtn', 'data-test': 'open-traverse', on: { click: () => ctx.go(`#/job/${ctx.jobId}/traverse/${trv.id}`) } }, 'Open the traverse')));
 
@@ -60,16 +61,17 @@ export function render(ctx) {
 
   const result = resultCard('capacity-result', res && res.status, res, () => {
     const c = res.capacity, u = res.uncertainty || {}, e = res.expected, ex = e && !e.at_test_conditions ? 'Rated' : 'Expected';
-    const pm = (v, unc) => `${power(v, U.power)}${unc ? ` ± ${num(unc, 0)} ${U.power}` : ''}`;
-    const basis = res.flow_basis === 'standard' ? ' (standard air)' : res.flow_basis ? ` (${res.flow_basis}ing air)` : '';
+    const cool = (c ? c.process : ct.mode) === 'cooling';
+    const pm = (v, unc) => `${power(v, U.power, cool)}${unc ? ` ± ${num(unc, 0)} ${U.power}` : ''}`;
+    const basis = res.flow_basis ? ` (${BASIS[res.flow_basis] || res.flow_basis})` : '';
     return [
       h('div', { class: 'scr-status' }, badge(res.status)), sideLine(res, 'Delivered:'),
-      res.airflow !== undefined && row('Airflow', num(res.airflow, 0, U.air_flow) + basis),
+      res.airflow !== undefined && row('Airflow', num(res.airflow, 0, U.air_flow) + basis, 'capacity-airflow'),
       c && [row(`Total (${c.process})`, pm(c.total, u.total), 'capacity-total'), row('Sensible', pm(c.sensible, u.sensible), 'capacity-sensible'),
-        row('Latent', power(c.latent, U.power), 'capacity-latent'), row('Sensible heat ratio', num(c.shr, 2), 'capacity-shr')],
-      e && row(`${ex} total (${EXPECTED[e.source] || e.source})`, power(e.total, U.power), 'capacity-expected'),
+        row('Latent', power(c.latent, U.power, cool), 'capacity-latent'), row('Sensible heat ratio', num(c.shr, 2), 'capacity-shr')],
+      e && row(`${ex} total (${EXPECTED[e.source] || e.source})`, power(e.total, U.power, ct.mode === 'cooling'), 'capacity-expected'),
       e && e.basis && h('p', { class: 'hint', 'data-test': 'capacity-basis' }, `Basis: ${e.basis}.`),
-      e && e.sensible !== undefined && row(`${ex} sensible`, power(e.sensible, U.power)),
+      e && e.sensible !== undefined && row(`${ex} sensible`, power(e.sensible, U.power, ct.mode === 'cooling')),
       res.percent_of_expected !== undefined && row('Delivered', `${num(res.percent_of_expected, 1)} % of ${ex.toLowerCase()}`, 'capacity-percent'),
       e && e.note && h('p', { class: 'hint' }, e.note),
       u.omits && u.omits.length > 0 && h('p', { class: 'hint' }, `The ± leaves out: ${u.omits.join('; ')}.`),

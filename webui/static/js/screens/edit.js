@@ -55,7 +55,8 @@ const X = {
         hint: locked ? `Locked: the job holds design data in ${rec.units === 'si' ? 'SI' : 'IP'} units.` : 'Cannot be changed once the job holds design data.' },
       _air: { o: o(['elevation', 'Site elevation'], ['barometric', 'Measured pressure']), l: 'Air pressure from' },
       elevation: { u: (v) => (si(v) ? 'm' : 'ft'), opt: 1, zero: 1, show: is('_air', 'elevation') },
-      barometric: { u: (v) => (si(v) ? 'kPa' : 'psia'), opt: 1, show: is('_air', 'barometric') },
+      barometric: { u: (v) => (si(v) ? 'kPa' : 'psia'), opt: 1, show: is('_air', 'barometric'),
+        hint: "Station pressure (absolute) read at the site, not the weather service's sea-level figure." },
     };
     for (const k of ['outlet', 'fan', 'hydronic']) for (const s of ['low', 'high']) x[`tolerances.${k}_${s}_pct`] = { zero: 1 };
     return x;
@@ -75,7 +76,7 @@ const X = {
   }),
   outlet: (c) => ({
     system_id: { o: sys(c) }, kind: { o: o('supply', 'return', 'exhaust', 'outdoor_air') },
-    size: { hint: 'e.g. 24x24' }, method: { o: o(['hood', 'Flow hood × factor'], ['ak', 'Velocity × Ak']) },
+    size: { hint: ip(c) ? 'e.g. 24×24 in (neck)' : 'e.g. 600×600 mm (neck)' }, method: { o: o(['hood', 'Flow hood × correction factor'], ['ak', 'Velocity × Ak']) },
     factor: { show: is('method', 'hood'), hint: '1 when the hood reads the outlet as it is' }, ak: { show: is('method', 'ak') },
   }),
   traverse: (c) => {

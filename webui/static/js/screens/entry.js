@@ -24,8 +24,9 @@ export const unitLabel = (ctx, code) => ctx.q.label(code);
 // asEntered: a typed value without float noise (0.125, not 0.12499…).
 export const asEntered = (v) => (Number.isFinite(v) ? Number(v.toPrecision(6)).toLocaleString('en-US', { maximumFractionDigits: 6 }) : '—');
 export const num = (v, digits, unit) => (Number.isFinite(v) ? `${fmt(v, digits)}${unit ? ' ' + unit : ''}` : '—');
-// power: "120,000 Btu/h (120 MBH, 10.0 tons)" or "35,170 W (35.2 kW)"; a ton is 12,000 Btu/h.
-export const power = (v, u) => (Number.isFinite(v) ? `${num(v, 0, u)} (${u === 'W' ? num(v / 1000, 1, 'kW') : `${num(v / 1000, 1, 'MBH')}, ${num(v / 12000, 1, 'tons')}`})` : '—');
+// power: "120,000 Btu/h (120 MBH, 10.0 tons)" or "35,170 W (35.2 kW)"; a ton
+// is 12,000 Btu/h, and tons are for cooling only (a heating coil says MBH).
+export const power = (v, u, cooling) => (Number.isFinite(v) ? `${num(v, 0, u)} (${u === 'W' ? num(v / 1000, 1, 'kW') : `${num(v / 1000, 1, 'MBH')}${cooling ? `, ${num(v / 12000, 1, 'tons')}` : ''}`})` : '—');
 
 // field: a numeric entry bound to st.values[test]; check(v) says why a value
 // is far off ('' when not); signed adds the ± key.

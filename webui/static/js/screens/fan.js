@@ -1,15 +1,15 @@
 // Fan screen: a system's fan and motor in the steps a technician takes them
 // (nameplate and drive, speed, volts and amps, static pressures), each saved
 // on its own with the server's results beside it.
-import { h, caution, kindWord, statusBadge, agreeText, sideLine } from '../ui.js';
+import { h, caution, onRoof, kindWord, statusBadge, agreeText, sideLine } from '../ui.js';
 import {
   screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, badge, row, num,
   tolerance, messages, header, noteLine, nowHint, put, fill, unitLabel, unitFor, saveRow, notFound,
 } from './entry.js';
-import { band, far, historyView } from './fix.js';
+import { band, far, historyView, lineName } from './fix.js';
 
 const STATICS = [
-  ['static_supply', 'Supply static'], ['static_return', 'Return static'], ['static_external', 'External static'],
+  ['static_supply', 'Fan discharge static'], ['static_return', 'Fan inlet (suction) static'], ['static_external', 'External static'],
   ['static_filter', 'Across the filters'], ['static_coil', 'Across the coil'],
 ];
 
@@ -60,8 +60,8 @@ export function render(ctx) {
   const legs = (add, qty, word) => (phases === 1
     ? grid(add(`q-${qty}`, word, qty, 0, 'electrical'))
     : h('div', { class: 'scr-legs' }, h('div', { class: 'scr-legs-head' }, `${word} (${unitLabel(ctx, unitFor(ctx, 'system', qty))})`),
-      [1, 2, 3].map((leg) => add(`q-${qty}-${leg}`, `Leg ${leg}`, qty, leg, 'electrical'))));
-  const legText = (list, unit, digits) => (list && list.length ? `${list.map((l) => `${l.leg ? `L${l.leg} ` : ''}${num(l.value, digits)}`).join(' · ')} ${unit}` : '—');
+      [1, 2, 3].map((leg) => add(`q-${qty}-${leg}`, lineName(qty, leg), qty, leg, 'electrical'))));
+  const legText = (qty, list, unit, digits) => (list && list.length ? `${list.map((l) => `${l.leg ? `${lineName(qty, l.leg)} ` : ''}${num(l.value, digits)}`).join(' · ')} ${unit}` : '—');
   const pct = (v) => (v === undefined ? '—' : `${num(v, 1)} %`);
   const fl = res && res.fan_law;
   const plate = [['Make', d.make], ['Model', d.model], ['Serial', d.serial], ['Motor', [d.motor_make, d.motor_frame && `frame ${d.motor_frame}`].filter(Boolean).join(', ')],
@@ -72,7 +72,7 @@ export function render(ctx) {
     ['Belts', d.belts], ['Bushings', [d.fan_bushing, d.motor_bushing].filter(Boolean).join(' / ')], ['Filters', d.filters]].filter(([, v]) => v);
 
   put(root, header(`Fan and motor ${sys.tag}`, [kindWord(sys.kind), sys.name].filter(Boolean).join(' · ')),
-    sys.kind === 'rooftop_unit' && caution('roof'), caution('rotating'),
+    onRoof(sys) && caution('roof'), caution('rotating'),
     h('div', { class: 'card' }, h('div', { class: 'scr-picks' }, stageSelect(st, () => ctx.rerender())),
       row('Airflow', res && res.airflow !== undefined ? num(res.airflow, 0, U.air_flow) + ({ traverse: ` (from the traverse${(byId(results(ctx).traverses, res.airflow_traverse_id) || {}).density_source === 'standard' ? ', standard air' : ''})`, outlets: ' (sum of the outlets)' }[res.airflow_source] || '') : 'not measured yet', 'fan-airflow'),
       row('Design airflow', num(d.airflow, 0, U.air_flow)),
@@ -82,7 +82,7 @@ export function render(ctx) {
       res && messages({ errors: res.errors, flags: res.flags })),
     step(1, 'Nameplate and drive', 'drive', h('dl', { class: 'plate', 'data-test': 'fan-design' }, plate.map(([k, v]) => [h('dt', {}, k), h('dd', {}, v)])),
       (add) => [h('p', { class: 'hint' }, 'Check the nameplate against the data above; say what differs in the remark. Lock out before measuring the sheaves.'),
-        grid(add('q-motor_sheave', 'Motor sheave pitch', 'motor_sheave'), add('q-fan_sheave', 'Fan sheave pitch', 'fan_sheave'))],
+        grid(add('q-motor_sheave', 'Motor sheave pitch diameter', 'motor_sheave'), add('q-fan_sheave', 'Fan sheave pitch diameter', 'fan_sheave'))],
       () => [row('Sheaves (motor / fan)', `${num(res.motor_sheave, dg)} / ${num(res.fan_sheave, dg)} ${U.length || ''}`),
         fl && row('Motor sheave for design', num(fl.motor_sheave, dg, U.length), 'fan-law-sheave')]),
     step(2, 'Speed', 'speed', null,
@@ -92,11 +92,11 @@ export function render(ctx) {
           row('Fan speed', num(fl.fan_rpm, 0, 'rpm'), 'fan-law-rpm'), row('Input power', kw(fl.input_power_kw), 'fan-law-power'), fl.note && h('p', { class: 'hint' }, fl.note))]),
     step(3, 'Volts and amps', 'electrical', caution('electrical'),
       (add) => [instrumentSelect(ctx, st, 'electrical', ['clamp_meter', 'multimeter'], { label: 'Meter', test: 'instrument-electrical' }),
-        h('p', { class: 'hint' }, phases === 1 ? 'Single phase: one reading each.' : 'Volts leg to leg, amps on each leg (1 to 3).'),
+        h('p', { class: 'hint' }, phases === 1 ? 'Single phase: one reading each.' : 'Volts line to line, amps on each line.'),
         legs(add, 'volts', 'Volts'), legs(add, 'amps', 'Amps'), grid(add('q-power_factor', 'Power factor (if read)', 'power_factor', 0, 'electrical'))],
       () => [res.motor_status && h('div', { class: 'scr-status', 'data-test': 'motor-status', 'data-status': res.motor_status }, statusBadge(res.motor_status, res.motor_status === 'ok' ? 'motor checks pass' : 'motor check: see the warnings')),
-        messages({ warnings: res.motor_warnings }), row('Volts', legText(res.volts, 'V', 0)), row('Amps', legText(res.amps, 'A', 1)),
-        row('% of FLA (highest leg)', res.percent_fla === undefined ? '—' : `${num(res.percent_fla, 0)} % of ${num(d.fla, 1)} A`, 'fan-fla'),
+        messages({ warnings: res.motor_warnings }), row('Volts', legText('volts', res.volts, 'V', 0)), row('Amps', legText('amps', res.amps, 'A', 1)),
+        row('% of nameplate FLA (highest line)', res.percent_fla === undefined ? '—' : `${num(res.percent_fla, 0)} % of ${num(d.fla, 1)} A`, 'fan-fla'),
         row('Voltage imbalance', pct(res.voltage_imbalance_pct), 'fan-vimb'), row('Current imbalance', pct(res.current_imbalance_pct), 'fan-aimb'),
         row('Input power', kw(res.input_power_kw), 'fan-kw'), messages({ notes: res.notes })]),
     step(4, 'Static pressures', 'statics', null,

@@ -125,11 +125,17 @@ export function fixForm(ctx, r, { label, check, signed, where = 'screen' } = {})
       h('button', { type: 'button', class: 'btn secondary', 'data-test': 'fix-cancel', on: { click: cancel } }, 'Cancel')));
 }
 
+// lineName: a three-phase reading's conductors. Volts are read line to line
+// (L1–L2, L2–L3, L3–L1), amps on each line (L1, L2, L3).
+export const lineName = (qty, n) => (qty === 'volts' ? ['L1–L2', 'L2–L3', 'L3–L1'][n - 1] || `L${n}` : `L${n}`);
 
-// entryLabel: what a reading is of, e.g. "motor amps, leg 2" (the outbox screen shows it too).
+// entryLabel: what a reading is of, e.g. "motor amps, L2" (the outbox screen shows it too).
+// The fan screen's words for the two fan statics (an exhaust fan has no
+// "return"); the quantity codes stay.
+const SAYS = { static_supply: 'fan discharge static pressure', static_return: 'fan inlet (suction) static pressure' };
 export function entryLabel(ctx, r) {
-  const d = ctx.q.describe(r.subject_kind, r.quantity).replace(/ at a traverse point$|, per leg or single$/, '');
-  return d + (!r.point ? '' : r.subject_kind === 'system' ? `, leg ${r.point}` : `, point ${r.point}`);
+  const d = (r.subject_kind === 'system' && SAYS[r.quantity]) || ctx.q.describe(r.subject_kind, r.quantity).replace(/ at a traverse point$|, per leg or single$/, '');
+  return d + (!r.point ? '' : r.subject_kind === 'system' ? `, ${lineName(r.quantity, r.point)}` : `, point ${r.point}`);
 }
 
 const all = new Map(); // job → {list, at, err}: every reading, as GET /readings gives them

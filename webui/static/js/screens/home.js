@@ -2,7 +2,7 @@
 // instruments with their calibration, the findings, the outbox and (for
 // leads) the lead's tools.
 
-import { h, fmt, statusBadge, statusWord, caution, kindWord, link, jobHash, agreeText } from '../ui.js';
+import { h, fmt, statusBadge, statusWord, caution, onRoof, kindWord, link, jobHash, agreeText } from '../ui.js';
 
 const FAN_KINDS = new Set(['air_handler', 'rooftop_unit', 'fan']);
 const DONE = new Set(['computed', 'meets', 'short', 'no_expected', 'within', 'low', 'high', 'undetermined']);
@@ -48,7 +48,8 @@ function systemCard(ctx, sys, rec, tests) {
       sys.airflow_tolerance ? ` (${fmt(sys.airflow_tolerance.percent_of_design, 1)} %${sys.airflow_tolerance.side_text ? `; ${sys.airflow_tolerance.side_text}` : ''})` : '') : null,
     sys.outlets_vs_traverse ? h('p', { class: 'small', 'data-test': 'outlets-vs-traverse' }, agreeText(sys.outlets_vs_traverse, units.air_flow || ''), statusBadge(sys.outlets_vs_traverse.status)) : null,
     all.length ? h('p', { class: 'small' }, `Tests done: ${done} of ${all.length}`) : null,
-    sys.kind === 'rooftop_unit' ? caution('roof') : null,
+    onRoof({ kind: sys.kind, location: rec && rec.location }) ? caution('roof') : null,
+    sys.kind === 'pump' ? caution('pump') : null,
     h('div', { class: 'actions' },
       o.total ? link(`Outlets (${o.total})`, jobHash(ctx, 'system', sys.id), { class: 'btn', 'data-test': 'open-outlets', 'data-tag': sys.tag }) : null,
       FAN_KINDS.has(sys.kind) ? link('Fan and motor', jobHash(ctx, 'fan', sys.id), { class: 'btn secondary', 'data-test': 'fan-item', 'data-tag': sys.tag }) : null),

@@ -87,7 +87,7 @@ export function render(ctx) {
     unit: q.label(unit),
     hint: quantity === 'velocity'
       ? `Multiplied by Ak ${fmt(rec.ak, 3)} ${u.area || ''} by the server.`
-      : (rec.factor && rec.factor !== 1 ? `As the hood shows it; the server multiplies by the factor ${fmt(rec.factor, 3)}.` : 'As the hood shows it.'),
+      : (rec.factor && rec.factor !== 1 ? `As the hood shows it; the server multiplies by the hood correction factor ${fmt(rec.factor, 3)}.` : 'As the hood shows it.'),
   });
   const err = h('p', { class: 'msg msg-error', role: 'alert', 'data-test': 'reading-error', hidden: true });
   const saved = h('div', { role: 'status', 'data-test': 'reading-saved' });

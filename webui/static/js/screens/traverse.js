@@ -1,7 +1,7 @@
 // Traverse screen: a duct plane read point by point with a pitot tube (or an
 // anemometer). Point positions, velocities and the flow all come from the
 // server's results; the app only shows them and posts readings.
-import { h, caution, kindWord, fmt, timeText } from '../ui.js';
+import { h, caution, onRoof, kindWord, fmt, timeText } from '../ui.js';
 import { s } from '../chart.js';
 import {
   screenState, snap, results, rUnits, byId, field, stageSelect, instrumentSelect, collect, post, head,
@@ -148,8 +148,8 @@ export function render(ctx) {
     ? `Round duct ${asEntered(tr.diameter)} ${len} · ${method} · ${tr.diameters} diameters × ${tr.points_per_diameter} points`
     : `Rectangular duct ${asEntered(tr.width)} × ${asEntered(tr.height)} ${len} · ${method} · ${tr.points_h} lines × ${tr.points_w} points`;
   const where = sys && !String(tr.location).startsWith(sys.tag) ? [sys.tag, tr.location].filter(Boolean).join(' · ') : tr.location;
-  put(root, header(`Traverse ${tr.tag}`, where), h('p', { class: 'scr-duct', 'data-test': 'traverse-duct' }, duct),
-    caution(sys && sys.kind === 'rooftop_unit' ? 'roof' : 'ladder'));
+  put(root, header(`Traverse ${tr.tag}`, where),
+    caution(onRoof(sys) || /roof/i.test(tr.location || '') ? 'roof' : 'ladder'), h('p', { class: 'scr-duct', 'data-test': 'traverse-duct' }, duct));
 
   const promptBox = h('div', { class: 'card' });
   const gridBox = h('div', { class: 'card scr-gridbox' });

@@ -29,7 +29,7 @@ export function render(ctx) {
   const hot = wt.mode === 'heating' || (res && (res.process === 'heating' || res.enter_temp > lim || res.leave_temp > lim));
 
   put(root, header(`Water test ${wt.tag}`, sys ? [sys.tag, sys.name].filter(Boolean).join(' · ') : ''),
-    caution(hot ? 'hot_water' : 'piping'),
+    caution(hot ? 'hot_water' : 'piping'), sys && (sys.kind === 'pump' || sys.kind === 'water_loop') && caution('pump'),
     h('div', { class: 'scr-duct', 'data-test': 'water-source' },
       h('div', {}, valve ? `Balancing valve, ${si ? 'Kv' : 'Cv'} ${asEntered(wt.valve_cv)}: read the ΔP across it` : 'Flow meter: read the flow'),
       h('div', {}, `Fluid: ${fluid} · design ${num(wt.design_flow, 1, U.water_flow)}`),
@@ -57,6 +57,7 @@ export function render(ctx) {
 
   const result = resultCard('water-result', res && res.status, res, () => {
     const c = res.capacity, a = res.air_side, t = U.temperature;
+    const cool = (c ? c.process : wt.mode) === 'cooling';
     return [
       h('div', { class: 'scr-status' }, badge(res.status)),
       res.dp !== undefined && row('Valve ΔP', num(res.dp, 2, U.water_pressure)),
@@ -65,12 +66,12 @@ export function render(ctx) {
       row('Design', num(res.design_flow, 1, U.water_flow)),
       tolerance(res.tolerance, U.water_flow, 1),
       row('Entering / leaving', `${num(res.enter_temp, 1, t)} / ${num(res.leave_temp, 1, t)}`),
-      c && [row(`Capacity (${c.process})`, power(c.capacity, U.power), 'water-capacity'), row('Mean water temperature', num(c.mean_temp, 1, t))],
+      c && [row(`Capacity (${c.process})`, power(c.capacity, U.power, c.process === 'cooling'), 'water-capacity'), row('Mean water temperature', num(c.mean_temp, 1, t))],
       res.specific_gravity !== undefined && row('Specific gravity used', num(res.specific_gravity, 3)),
       a && h('div', { class: 'scr-agree', 'data-test': 'water-agreement' },
         h('h3', {}, 'Air side and water side ', a.note ? statusBadge('flag', 'sides differ') : statusBadge('within', 'sides agree')),
-        row('Air side (capacity test)', power(a.air_total, U.power)),
-        row('Water side', power(a.water_capacity, U.power)),
+        row('Air side (capacity test)', power(a.air_total, U.power, cool)),
+        row('Water side', power(a.water_capacity, U.power, cool)),
         row('Difference', `${num(a.difference_pct, 1)} %`, 'water-difference'),
         h('p', { class: 'hint' }, a.note || 'The server finds the two sides in agreement.')),
       missingList(res.missing, WORDS), messages(res)];
