@@ -21,7 +21,7 @@ func (d *doc) certification(s *Signoff) {
 	if s != nil {
 		who := s.Name
 		if s.Certification != "" {
-			who += ", certification or licence no. " + s.Certification
+			who += ", certification or license no. " + s.Certification
 		}
 		if s.Organisation != "" {
 			who += ", " + s.Organisation

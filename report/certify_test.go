@@ -29,7 +29,7 @@ func TestRenderCertification(t *testing.T) {
 		SignedAt: fixtureNow, SignaturePNG: signaturePNG(t)}
 	path, _ := render(t, in)
 	page := signOff(path)
-	for _, w := range []string{norm(DefaultStatement), "Signed by Ada Quill, certification or licence no. TAB-0042 (fictional), Fixture balancing crew.",
+	for _, w := range []string{norm(DefaultStatement), "Signed by Ada Quill, certification or license no. TAB-0042 (fictional), Fixture balancing crew.",
 		"Certification or license no. TAB-0042 (fictional)", "Firm Fixture balancing crew"} {
 		if !strings.Contains(page, w) {
 			t.Errorf("the signed sign-off page lacks %q:\n%s", w, page)

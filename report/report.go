@@ -59,7 +59,7 @@ type Revision struct {
 // Signoff is who signs the report, and their drawn signature.
 type Signoff struct {
 	Name          string
-	Certification string // certification or licence number
+	Certification string // certification or license number
 	Organisation  string
 	// Statement is the wording the signer certifies; empty prints
 	// DefaultStatement.
