@@ -91,6 +91,11 @@ func TestBrowserJobNewToSignedReport(t *testing.T) {
 	// The lead's tablet: one job in the store, so it opens on the job's home.
 	lead := joinWithCode(t, app, runFieldtab(t, bin, "join-code", "--db", store, "--role", "lead"), "Lead tablet")
 	lead.waitSel("[data-test=job-home]")
+	// An empty job says where its systems come from, and claims no finding.
+	lead.waitSel("[data-test=no-systems]")
+	if home := lead.text("[data-test=job-home]"); !strings.Contains(home, "Set up the job") || !strings.Contains(home, "nothing has been read") {
+		t.Errorf("the empty job's home reads %q; want a pointer to Set up the job and no claim that all is within tolerance", home)
+	}
 	lead.click("[data-test=open-setup]")
 	lead.waitSel("[data-test=setup-screen]")
 	lead.click("[data-test=add-system]")

@@ -111,7 +111,10 @@ export function render(ctx) {
     h('div', { class: 'cols' },
       h('div', {},
         h('h2', { class: 'screen-head' }, 'Systems'),
-        systems.map((s) => systemCard(ctx, s, recs.get(s.id), testsOf(s.id))),
+        systems.length ? systems.map((s) => systemCard(ctx, s, recs.get(s.id), testsOf(s.id)))
+          : h('section', { class: 'card', 'data-test': 'no-systems' }, h('p', {}, ctx.role === 'lead'
+            ? 'No systems yet: add them under Set up the job, or import the schedule from the lead screen.'
+            : 'No systems yet: the lead adds them.')),
         loose.traverses.length + loose.capacity.length + loose.water.length ? h('section', { class: 'card' },
           h('h2', {}, 'Other tests'),
           h('ul', { class: 'list tests' },
@@ -132,7 +135,8 @@ export function render(ctx) {
             return h('li', {}, href
               ? h('a', { class: 'item', href, 'data-test': 'finding', 'data-kind': f.kind }, body)
               : h('div', { class: 'item', 'data-test': 'finding', 'data-kind': f.kind }, body));
-          })) : h('p', {}, 'No findings: everything read is within tolerance.')))));
+          })) : h('p', {}, (snap.readings || []).length
+            ? 'No findings: everything read is within tolerance.' : 'No findings yet: nothing has been read.')))));
 }
 
 function rank(s) { return { overdue: 0, due_soon: 1, unknown: 2, current: 3 }[s] ?? 2; }
