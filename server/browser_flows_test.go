@@ -389,6 +389,15 @@ func TestBrowserCapacity(t *testing.T) {
 	p.join("Phone Cy")
 	p.click(tagSel("capacity-item", "CT-1"))
 	p.waitSel("[data-test=capacity-screen]")
+	// Temperatures may be below zero on a winter test: each has a ± key.
+	for _, qty := range []string{"enter_db", "leave_wb", "outdoor_db"} {
+		if p.count("[data-test=sign-toggle][data-for=q-"+qty+"]") != 1 {
+			t.Errorf("no ± key for %s", qty)
+		}
+	}
+	if p.count("[data-test=sign-toggle][data-for=q-flow]") != 0 {
+		t.Error("a ± key on the airflow, which is never negative")
+	}
 	inputs := []struct {
 		q    string
 		v    float64

@@ -29,9 +29,12 @@ export const num = (v, digits, unit) => (Number.isFinite(v) ? `${fmt(v, digits)}
 export const power = (v, u, cooling) => (Number.isFinite(v) ? `${num(v, 0, u)} (${u === 'W' ? num(v / 1000, 1, 'kW') : `${num(v / 1000, 1, 'MBH')}${cooling ? `, ${num(v / 12000, 1, 'tons')}` : ''}`})` : '—');
 
 // field: a numeric entry bound to st.values[test]; check(v) says why a value
-// is far off ('' when not); signed adds the ± key.
+// is far off ('' when not); signed adds the ± key, which every temperature
+// has too (a winter heating test reads below zero).
 export function field(ctx, st, { test, label, kind, qty, point = 0, hint, inst, check, signed }) {
   const unit = unitFor(ctx, kind, qty);
+  const spec = ctx.q.spec(kind, qty);
+  if (signed === undefined && spec && spec.dimension === 'temperature') signed = true;
   const f = numberField({ test, label, unit: unitLabel(ctx, unit), value: st.values[test] ?? '', hint: hint || undefined, signed });
   f.input.addEventListener('input', () => { st.values[test] = f.input.value; });
   return { el: f.el, input: f.input, test, qty, point, unit, unitText: unitLabel(ctx, unit), label, inst, check };
