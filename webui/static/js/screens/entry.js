@@ -68,8 +68,12 @@ export function instrumentSelect(ctx, st, group, kinds, { label = 'Instrument', 
     st.inst[group] = last || (fit ? fit.id : '');
   }
   const calWords = { overdue: ' (calibration overdue)', due_soon: ' (calibration due soon)' };
+  const opt = (i) => h('option', { value: i.id }, `${i.tag} · ${String(i.kind).replace(/_/g, ' ')}${calWords[cal(i)] || ''}`);
+  // The kinds that read this come first; the rest stay at hand, set apart.
+  const others = list.filter((i) => !fits(i));
   const sel = h('select', { 'data-test': test }, h('option', { value: '' }, 'no instrument'),
-    list.map((i) => h('option', { value: i.id }, `${i.tag} · ${String(i.kind).replace(/_/g, ' ')}${calWords[cal(i)] || ''}`)));
+    list.filter(fits).map(opt),
+    others.length ? h('optgroup', { label: 'Other instruments' }, others.map(opt)) : null);
   sel.value = st.inst[group];
   st.inst[group] = sel.value;
   sel.addEventListener('change', () => {
