@@ -398,6 +398,11 @@ func TestBrowserCapacity(t *testing.T) {
 	if p.count("[data-test=sign-toggle][data-for=q-flow]") != 0 {
 		t.Error("a ± key on the airflow, which is never negative")
 	}
+	// What is still needed names only fields the form has.
+	p.waitSel("[data-test=result-missing]")
+	if txt := p.text("[data-test=result-missing]"); strings.Contains(txt, "dew point") || !strings.Contains(txt, "entering wet bulb or entering RH") {
+		t.Errorf("still needed: %q; want wet bulb or RH, and no dew point the form cannot take", txt)
+	}
 	inputs := []struct {
 		q    string
 		v    float64

@@ -33,7 +33,7 @@ export function render(ctx) {
   put(root, header(`Capacity test ${ct.tag}`, [sys && sys.tag, ct.mode && `${ct.mode} test`].filter(Boolean).join(' · ')),
     onRoof(sys) && caution('roof'),
     h('p', { class: 'scr-duct', 'data-test': 'capacity-source' }, source + flow,
-      trv && h('button', { type: 'button', class: 'btn scr-linkbtn', 'data-test': 'open-traverse', on: { click: () => ctx.go(`#/job/${ctx.jobId}/traverse/${trv.id}`) } }, 'Open the traverse')));
+      trv && ' ', trv && h('button', { type: 'button', class: 'btn scr-linkbtn', 'data-test': 'open-traverse', on: { click: () => ctx.go(`#/job/${ctx.jobId}/traverse/${trv.id}`) } }, 'Open the traverse')));
 
   const formBox = h('div', { class: 'card' });
   const drawForm = () => {
@@ -75,7 +75,8 @@ export function render(ctx) {
       res.percent_of_expected !== undefined && row('Delivered', `${num(res.percent_of_expected, 1)} % of ${ex.toLowerCase()}`, 'capacity-percent'),
       e && e.note && h('p', { class: 'hint' }, e.note),
       u.omits && u.omits.length > 0 && h('p', { class: 'hint' }, `The ± leaves out: ${u.omits.join('; ')}.`),
-      states(res, U), missingList(res.missing, WORDS), messages(res)];
+      // The form reads wet bulb or RH; a dew point is for the API alone.
+      states(res, U), missingList((res.missing || []).map((t) => t.replace(/, (enter|leave)_rh or \1_dp/, ' or $1_rh')), WORDS), messages(res)];
   });
 
   const chartBox = h('div', { class: 'card scr-chartbox', 'data-test': 'chart-box' }, h('h2', {}, 'Psychrometric chart'));
@@ -110,5 +111,6 @@ function states(res, U) {
     h('thead', {}, h('tr', {}, h('th', {}, ''), h('th', { scope: 'col' }, 'entering'), h('th', { scope: 'col' }, 'leaving'))),
     h('tbody', {}, line('Dry bulb', 'dry_bulb', 1, t), line('Wet bulb', 'wet_bulb', 1, t), line('Dew point', 'dew_point', 1, t),
       line('RH', 'rel_hum', 0, '%'), line(`Humidity ratio, ${U.hum_ratio || ''}`, 'hum_ratio', 4, ''), line(`Enthalpy, ${U.enthalpy || ''}`, 'enthalpy', 2, '')),
-    res.outdoor_db !== undefined && h('tfoot', {}, h('tr', {}, h('th', { scope: 'row' }, 'Outdoor dry bulb'), h('td', { colspan: 2 }, num(res.outdoor_db, 1, t)))));
+    res.outdoor_db !== undefined && h('tfoot', {}, h('tr', {}, h('th', { scope: 'row' }, 'Outdoor dry bulb'),
+      h('td', { colspan: 2, class: 'scr-outdoor' }, `${num(res.outdoor_db, 1, t)} outdoors`))));
 }
