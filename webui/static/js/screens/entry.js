@@ -167,8 +167,10 @@ export const pmText = (t, unit, d = 0) => (t.uncertainty_unknown ? ', no instrum
 
 // tolerance: "98.7 % of design (band 3,800 to 4,400 cfm, reading ± 20 cfm)".
 export function tolerance(tol, unit, d = 0) {
-  return tol && h('div', { class: 'scr-tol' }, badge(tol.status), ' ',
-    `${fmt(tol.percent_of_design, 1)} % of design (band ${fmt(tol.low, d)} to ${fmt(tol.high, d)} ${unit}${pmText(tol, unit, d)})`, sideLine(tol));
+  // The figures on a line of their own: after the badge's words they read
+  // as one sentence ("below the band 16.9 % of design").
+  return tol && h('div', { class: 'scr-tol' }, badge(tol.status),
+    h('div', {}, `${fmt(tol.percent_of_design, 1)} % of design (band ${fmt(tol.low, d)} to ${fmt(tol.high, d)} ${unit}${pmText(tol, unit, d)})`), sideLine(tol));
 }
 
 const msgBox = (list, cls, title, test) => list && list.length > 0 && h('div', { class: `scr-msg ${cls}`, 'data-test': test },
