@@ -51,7 +51,7 @@ func (m *Main) jobNew(ctx context.Context, args []string) error {
 	dbPath := fs.String("db", "", "SQLite store (default: the one serve uses, fieldtab/fieldtab.db in the user's data directory)")
 	var j schema.Job
 	fs.StringVar(&j.Name, "name", "", "the job's name, e.g. \"Harbour Library HVAC renovation\" (required)")
-	fs.StringVar(&j.Units, "units", "", "unit system of every figure in the job: ip (cfm, °F, in. w.c.) or si (L/s, °C, Pa) (required)")
+	fs.StringVar(&j.Units, "units", "", "unit system of every figure in the job: ip (cfm, °F, in. w.g.) or si (L/s, °C, Pa) (required)")
 	elevation := fs.String("elevation", "", "site elevation above sea level, ft (ip) or m (si), for the air's density (default: sea level)")
 	barometric := fs.String("barometric", "", "measured barometric pressure, psia (ip) or kPa (si), instead of --elevation")
 	fs.StringVar(&j.SiteAddress, "site", "", "site address")

@@ -13,7 +13,7 @@ export const LABELS = {
   },
   instrument: {
     kind: 'Instrument', make: 'Make', model: 'Model', serial: 'Serial number', calibrated_on: 'Calibrated on',
-    calibration_due: 'Calibration due', accuracy_pct: 'Accuracy, ± % of reading', accuracy_abs: 'Accuracy, ± value', accuracy_unit: 'Unit of the ± value',
+    calibration_due: 'Calibration due', accuracy_pct: 'Accuracy, ± of reading', accuracy_abs: 'Accuracy, ± value', accuracy_unit: 'Unit of the ± value',
   },
   system: { kind: 'Kind of system' },
   // a system's design and nameplate fields, "design.airflow" and so on
