@@ -90,8 +90,12 @@ func (m *Main) jobNew(ctx context.Context, args []string) error {
 	fmt.Fprintln(m.Stdout, j.ID)
 	p, source, _ := schema.SitePressure(j)
 	unit := map[string]string{"ip": "psia", "si": "kPa"}[j.Units]
+	from := strings.ReplaceAll(source, "_", " ")
+	if j.Elevation != nil {
+		from = fmt.Sprintf("the elevation %s %s", strconv.FormatFloat(*j.Elevation, 'f', -1, 64), map[string]string{"ip": "ft", "si": "m"}[j.Units])
+	}
 	fmt.Fprintf(m.Stderr, "job %s (%s, %s units, air at %.2f %s from %s) started in %s\n",
-		j.ID, j.Name, strings.ToUpper(j.Units), p, unit, strings.ReplaceAll(source, "_", " "), db.Path)
+		j.ID, j.Name, strings.ToUpper(j.Units), p, unit, from, db.Path)
 	return nil
 }
 
