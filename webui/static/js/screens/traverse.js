@@ -58,14 +58,14 @@ function grid(tr, states, current, onPick) {
   const W = 320;
   const svg = s('svg', { class: 'tgrid', 'data-test': 'traverse-grid', 'aria-hidden': 'true' });
   // (vx, vy): where the velocity goes from the dot.
-  const dot = (p, cx, cy, room, vx = 0, vy = 20) => {
+  const dot = (p, cx, cy, room, vx = 0, vy = 20, lx = cx + vx) => {
     const state = p.conflict ? 'conflict' : p.pending && !p.stored ? 'waiting' : p.read ? 'read' : 'unread';
     return s('g', {
       class: `tp tp-${state}`, 'data-test': 'grid-point', 'data-point': p.point, 'data-state': state, 'aria-hidden': 'true', on: { click: () => onPick(p.point) },
     }, s('circle', { cx, cy, r: 14, class: 'tp-hit' }),
     p.point === current && s('circle', { cx, cy, r: 11, class: 'tp-ring' }),
     s('circle', { cx, cy, r: 6.5, class: 'tp-dot' }),
-    room && Number.isFinite(p.velocity) && s('text', { x: cx + vx, y: cy + vy, class: 'tp-vel', 'text-anchor': vx ? 'start' : 'middle' }, fmt(p.velocity, 0)));
+    room && Number.isFinite(p.velocity) && s('text', { x: lx, y: cy + vy, class: 'tp-vel', 'text-anchor': vx ? 'start' : 'middle' }, fmt(p.velocity, 0)));
   };
   if (tr.shape === 'round') {
     const R = W / 2 - 22, c = W / 2, k = R / (tr.diameter / 2), nd = Math.max(1, tr.diameters);
@@ -86,7 +86,12 @@ function grid(tr, states, current, onPick) {
     });
     for (const a of at) {
       const near = Math.min(...at.filter((b) => b !== a).map((b) => Math.hypot(b.cx - a.cx, b.cy - a.cy)));
-      svg.appendChild(dot(a.p, a.cx, a.cy, near >= 36, a.steep ? 10 : 0, a.steep ? 5 : 20));
+      // A label by a near-wall point is pulled inside the duct's wall; on a
+      // level diameter, labels go under and over their dots in turn, so two
+      // pulled together do not meet.
+      const lx = a.steep ? a.cx + 10 : Math.min(Math.max(a.cx, c - R + 26), c + R - 26);
+      const vy = a.steep ? 5 : (a.p.point % 2 ? 20 : -12);
+      svg.appendChild(dot(a.p, a.cx, a.cy, near >= 36, a.steep ? 10 : 0, vy, lx));
     }
     return svg;
   }
@@ -102,7 +107,11 @@ function grid(tr, states, current, onPick) {
       svg.append(s('line', { x1: padL - 8, y1: cy, x2: padL, y2: cy, class: 'tport' }),
         s('text', { x: padL - 11, y: cy + 4, class: 'tlabel', 'text-anchor': 'end' }, m[1]));
     }
-    svg.appendChild(dot(p, cx, cy, plotW / tr.points_w >= 40 && plotH / tr.points_h >= 36));
+    // The velocity goes under its dot, above it on the bottom line, and
+    // never across the duct's walls (a label is about 40 px wide).
+    const lx = Math.min(Math.max(cx, padL + 24), padL + plotW - 24);
+    const below = cy + 24 <= pad + plotH;
+    svg.appendChild(dot(p, cx, cy, plotW / tr.points_w >= 40 && plotH / tr.points_h >= 36, 0, below ? 20 : -12, lx));
   }
   return svg;
 }
@@ -177,7 +186,8 @@ export function render(ctx) {
       af && h('div', { class: 'scr-agree', 'data-test': 'traverse-as-found' }, h('h3', {}, 'As found ', badge(af.status)),
         row('Flow', pm(af), 'traverse-as-found-flow'), tolerance(af.tolerance, U.air_flow),
         row('Points read', `${af.points_read} of ${af.points_total}`), messages(af)),
-      res.uncertainty_note && h('p', { class: 'hint', 'data-test': 'traverse-uncertainty' }, `${res.uncertainty_note}.`),
+      res.uncertainty_note && h('details', { class: 'hint', 'data-test': 'traverse-uncertainty' },
+        h('summary', {}, 'What the ± is made of'), `${res.uncertainty_note}.`),
       row('Mean velocity', num(res.mean_velocity, 0, U.velocity), 'traverse-velocity'),
       row('Area', num(res.area, U.system === 'si' ? 3 : 2, U.area)),
       row('Air density', `${num(res.density, 4, U.density)} · ${DENSITY[res.density_source] || res.density_source}`),
