@@ -393,9 +393,12 @@ type CapacityTestResult struct {
 	Uncertainty       *CapacityUncertainty `json:"uncertainty,omitempty"`
 	Expected          *ExpectedCapacity    `json:"expected,omitempty"`
 	PercentOfExpected *float64             `json:"percent_of_expected,omitempty"`
-	Warnings          []string             `json:"warnings,omitempty"`
-	Flags             []Flag               `json:"flags,omitempty"`
-	Errors            []string             `json:"errors,omitempty"`
+	// PercentOfExpectedUncertainty is the delivered total's ± as a % of the
+	// expected total.
+	PercentOfExpectedUncertainty *float64 `json:"percent_of_expected_uncertainty,omitempty"`
+	Warnings                     []string `json:"warnings,omitempty"`
+	Flags                        []Flag   `json:"flags,omitempty"`
+	Errors                       []string `json:"errors,omitempty"`
 }
 
 // CoilFigures is measure.CoilCapacity's result in the job's units.
@@ -419,6 +422,9 @@ type CapacityUncertainty struct {
 const (
 	ExpectedBasisPerfTable = "manufacturer's performance table at the test's conditions"
 	ExpectedBasisRated     = "rated, at the manufacturer's rating conditions, not the test's"
+	// An air handler's coil is selected for the job: its figure is the
+	// schedule's, at the design conditions the schedule gives.
+	ExpectedBasisScheduled = "scheduled capacity, at the schedule's design rating conditions, not the test's"
 )
 
 // ExpectedCapacity is what the unit should deliver: from its performance
@@ -1199,6 +1205,7 @@ func (c *resultsCalc) capacity(ct *CapacityTest) CapacityTestResult {
 	u := 0.0
 	if unc != nil {
 		u = unc.Total
+		res.PercentOfExpectedUncertainty = resPtr(u / exp.Total * 100)
 	}
 	switch {
 	case total-u >= threshold:
@@ -1207,11 +1214,11 @@ func (c *resultsCalc) capacity(ct *CapacityTest) CapacityTestResult {
 		res.Status = ResultShort
 	default:
 		res.Status = string(measure.StatusUndetermined)
-		res.Side = ResultShort
+		res.Side, res.SideText = ResultShort, "below"
 		if total >= threshold {
-			res.Side = ResultMeets
+			res.Side, res.SideText = ResultMeets, "above"
 		}
-		res.SideText = res.Side + ", within the uncertainty of the " + c.num(CapacityMeetsPct, 0) + " % line"
+		res.SideText += " the " + c.num(CapacityMeetsPct, 0) + " % line, but within the test's uncertainty of it"
 	}
 	return res
 }
@@ -1423,6 +1430,9 @@ func (c *resultsCalc) expectedCapacity(ct *CapacityTest, enter measure.AirState,
 	}
 	if sys.Design.RatedTotal > 0 {
 		e := &ExpectedCapacity{Source: "nameplate", Basis: ExpectedBasisRated, Total: sys.Design.RatedTotal}
+		if sys.Kind == "air_handler" {
+			e.Basis = ExpectedBasisScheduled
+		}
 		if sys.Design.RatedSensible > 0 {
 			e.Sensible = resPtr(sys.Design.RatedSensible)
 		}
@@ -1920,9 +1930,9 @@ func (c *resultsCalc) findings() {
 	for _, ct := range r.CapacityTests {
 		subj := SubjectRef{SubjectCapacityTest, ct.ID, ct.Tag}
 		if ct.Status == ResultShort && ct.PercentOfExpected != nil {
-			add(FindingCapacityShort, subj, fmt.Sprintf("%s: delivered %s %s is %s %% of the expected %s %s (%s); at least %s %% is required (common practice).",
-				ct.Tag, c.num(ct.Capacity.Total, 0), c.units.Power, c.num(*ct.PercentOfExpected, 0),
-				c.num(ct.Expected.Total, 0), c.units.Power, ct.Expected.Basis, c.num(CapacityMeetsPct, 0)))
+			add(FindingCapacityShort, subj, fmt.Sprintf("%s: delivered %s is %s %% of the expected %s (%s); the usual acceptance is %s %% (common practice; the project specification governs).",
+				ct.Tag, c.capWords(ct.Capacity.Total, ct.Mode), c.num(*ct.PercentOfExpected, 0),
+				c.capWords(ct.Expected.Total, ct.Mode), ct.Expected.Basis, c.num(CapacityMeetsPct, 0)))
 		}
 		flagFindings(subj, ct.Flags)
 	}

@@ -499,9 +499,14 @@ func TestResultsCapacity(t *testing.T) {
 			t.Errorf("status = %q, want undetermined (± %.0f on %.0f)", cr.Status, cr.Uncertainty.Total, cr.Capacity.Total)
 		}
 		// 96 % is above the 95 % line itself: the meets side.
-		if cr.Side != ResultMeets || cr.SideText != "meets, within the uncertainty of the 95 % line" {
+		if cr.Side != ResultMeets || cr.SideText != "above the 95 % line, but within the test's uncertainty of it" {
 			t.Errorf("side %q %q, want meets", cr.Side, cr.SideText)
 		}
+		// The ± as a % of expected: the same ratio as ± over the total.
+		if cr.PercentOfExpectedUncertainty == nil {
+			t.Fatal("no ± in % of expected")
+		}
+		resClose(t, "± % of expected", *cr.PercentOfExpectedUncertainty, cr.Uncertainty.Total/cr.Expected.Total*100, 1e-9)
 	})
 	t.Run("OKPerfTable", func(t *testing.T) {
 		csv, err := os.ReadFile("../testdata/perf_rtu_example.csv")
