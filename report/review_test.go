@@ -24,7 +24,7 @@ func TestRenderReviewFixes(t *testing.T) {
 	p.instrumentsFor(now)
 	at := now.Add(-6 * time.Hour)
 	ahu := p.system(schema.System{Tag: "AHU-R", Kind: "air_handler", Name: "Review", Design: schema.SystemDesign{
-		Airflow: 2000, RatedTotal: 60_000, MotorHP: 5, Volts: 460, Phase: 3, FLA: 7, FanRPM: 1000, OutdoorAir: 300,
+		Airflow: 2000, RatedTotal: 78_000, MotorHP: 5, Volts: 460, Phase: 3, FLA: 7, FanRPM: 1000, OutdoorAir: 300,
 		MotorSheaveSize: "2-groove B, adjustable, bored for a taper-lock bushing", MotorSheavePitch: 5.9}})
 	s1 := p.outlet(ahu.ID, "S-R1", "Hall", "supply", "24x24", 1000)
 	s2 := p.outlet(ahu.ID, "S-R2", "Hall", "supply", "24x24", 500)
@@ -78,6 +78,12 @@ func TestRenderReviewFixes(t *testing.T) {
 	if wr.Capacity == nil || wr.Capacity.Process != "heating" {
 		t.Fatalf("fixture water test: %+v", wr.Capacity)
 	}
+	// About 76,400 ± 5,100 Btu/h against 95 % of 78,000 (74,100): above the
+	// line, but within the test's ± of it.
+	ct := r.CapacityTests[0]
+	if ct.Status != "undetermined" || ct.PercentOfExpected == nil || ct.PercentOfExpectedUncertainty == nil {
+		t.Fatalf("fixture capacity test: %s, %v %% of expected", ct.Status, ct.PercentOfExpected)
+	}
 	trr := r.Traverses[0]
 	path, _ := render(t, in)
 	raw := norm(pdfText(t, path, "raw"))
@@ -116,13 +122,16 @@ func TestRenderReviewFixes(t *testing.T) {
 		// Trade words in the reading log.
 		"velocity pressure, point 1", "volts, L1–L2", "amps, L3", "entering dry bulb", "valve ΔP", "fan speed", "hood reading",
 		"entering water",
+		// An undetermined capacity: where it lies, and why it is undetermined.
+		pm(u.pct(*ct.PercentOfExpected), u.pct(*ct.PercentOfExpectedUncertainty)) +
+			" of expected: above the 95 % line, but within the test's uncertainty of it",
 	} {
 		if !strings.Contains(raw, norm(want)) {
 			t.Errorf("the report lacks %q", want)
 		}
 	}
 	for _, bad := range []string{"∝", "enter db", "fan rpm", "vp 1 ", "volts 1", "Outdoor-air outlet", "hp motor",
-		"The project specification governs."} {
+		"The project specification governs.", "undetermined: meets"} {
 		if strings.Contains(raw, bad) {
 			t.Errorf("the report still has %q", bad)
 		}
