@@ -744,7 +744,7 @@ func (c *resultsCalc) checkOverdue(k resKey, rd *Reading) {
 	c.flags[k] = append(fl, Flag{Kind: FlagInstrumentOverdue, InstrumentID: rd.InstrumentID,
 		ReadingIDs: []string{rd.ID},
 		Text: fmt.Sprintf("A reading (%s, %s) was taken with %s on %s, after its calibration was due on %s.",
-			strings.ReplaceAll(rd.Quantity, "_", " "), strings.ReplaceAll(rd.Stage, "_", " "), resInstName(info.in), taken.Format(time.DateOnly), info.in.CalibrationDue)})
+			quantityWords(rd.SubjectKind, rd.Quantity), words(rd.Stage), resInstName(info.in), taken.Format(time.DateOnly), info.in.CalibrationDue)})
 }
 
 func resInstName(in *Instrument) string {
