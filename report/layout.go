@@ -260,10 +260,19 @@ func (d *doc) textLines(lines []string, size float64, align string) {
 	}
 }
 
+// keepLines is the longest paragraph para keeps on one page.
+const keepLines = 4
+
 // para prints wrapped body text in style ("", "B" or "I") and size.
 func (d *doc) para(text string, style string, size float64) {
 	d.font(famSans, style, size)
-	d.textLines(d.wrap(text, d.contentW()-1), size, "L")
+	lines := d.wrap(text, d.contentW()-1)
+	// A short paragraph (a note, a caption) stays on one page: a sentence
+	// broken across a page break reads as two.
+	if len(lines) <= keepLines {
+		d.ensure(float64(len(lines)) * d.lineH(size))
+	}
+	d.textLines(lines, size, "L")
 	d.setY(d.y() + 1)
 	d.font(famSans, "", sizeBody)
 }

@@ -55,13 +55,21 @@ func (d *doc) nameplate(sys *schema.System) {
 	d.grid2(given)
 }
 
-// grid2 prints label–value pairs in two columns side by side, row by row.
+// grid2 prints label–value pairs in two columns side by side, row by row; a
+// long value wraps within its column rather than being cut.
 func (d *doc) grid2(kv [][2]string) {
 	colW := d.contentW() / 2
 	labelW := 30.0
 	h := d.lineH(sizeBody)
 	for i := 0; i < len(kv); i += 2 {
-		d.ensure(h)
+		var vals [2][]string
+		n := 1
+		d.font(famSans, "", sizeBody)
+		for c := 0; c < 2 && i+c < len(kv); c++ {
+			vals[c] = d.wrap(kv[i+c][1], colW-labelW-3)
+			n = max(n, len(vals[c]))
+		}
+		d.ensure(float64(n) * h)
 		y := d.y()
 		for c := 0; c < 2 && i+c < len(kv); c++ {
 			x := d.left() + float64(c)*colW
@@ -69,10 +77,12 @@ func (d *doc) grid2(kv [][2]string) {
 			d.pdf.SetXY(x, y)
 			d.pdf.CellFormat(labelW, h, d.fit(kv[i+c][0], labelW-1), "", 0, "L", false, 0, "")
 			d.font(famSans, "", sizeBody)
-			d.pdf.SetXY(x+labelW, y)
-			d.pdf.CellFormat(colW-labelW-2, h, d.fit(kv[i+c][1], colW-labelW-3), "", 0, "L", false, 0, "")
+			for j, l := range vals[c] {
+				d.pdf.SetXY(x+labelW, y+float64(j)*h)
+				d.pdf.CellFormat(colW-labelW-2, h, l, "", 0, "L", false, 0, "")
+			}
 		}
-		d.setY(y + h)
+		d.setY(y + float64(n)*h)
 	}
 	d.setY(d.y() + 1)
 }

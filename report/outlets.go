@@ -14,13 +14,16 @@ func (d *doc) outletTables() {
 	u := d.u
 	d.heading(0, "Outlets")
 	tol := d.s.Job.Tolerances
-	d.para("Flows in "+u.AirFlow+", as measured (not corrected to standard air). The % of design and the status are the final "+
+	d.para("Flows in "+u.AirFlow+", as measured (not corrected to standard air): a hood reading × the outlet's hood correction "+
+		"factor, or an anemometer velocity × its Ak, as the Factor column gives; the reading log lists the readings as entered. "+
+		"The % of design and the status are the final "+
 		"reading's, else the as-found one's, against the outlet tolerance of −"+u.pct(tol.OutletLowPct)+" / +"+
 		u.pct(tol.OutletHighPct)+tolSource(tol)+" with the instrument's accuracy carried through; an undetermined status says on "+
 		"which side of the limit the reading lies. A status marked * rests on a reading taken with an instrument past its "+
 		"calibration date, one marked † on a reading with no instrument accuracy on record, judged as read with no ±. "+
-		"Remarks are the outlet's own and those entered with its readings. Each system's totals by kind close its table; their "+
-		"% of design is the final flows, else the as-found ones, over the design of the outlets read.", "", sizeBody)
+		"Remarks are the outlet's own and those entered with its readings. Each system's totals by kind close its table: "+
+		"the as-found total sums the as-found readings; the final total sums each read outlet's final flow, else its as-found "+
+		"one; its % of design is over the design of the outlets read, the basis the system pages use too.", "", sizeBody)
 
 	bySystem := make(map[string][]*schema.OutletResult, len(d.r.Systems))
 	for i := range d.r.Outlets {
@@ -67,19 +70,20 @@ func (d *doc) outletTable(title string, list []*schema.OutletResult) {
 		remarks[i] = d.outletRemarks(own, o)
 		withRemarks = withRemarks || remarks[i] != ""
 	}
-	cols := []column{{head: "Tag", w: 1.3}, {head: "Room", w: 3.2}, {head: "Kind", w: 1.2},
-		{head: "Size", w: 1.3}, {head: "Design", w: 1.1, align: "R"}, {head: "As found", w: 1.15, align: "R"},
-		{head: "Final", w: 1.05, align: "R"}, {head: "% of design", w: 1, align: "R"}, {head: "Status", w: 1.5}}
+	cols := []column{{head: "Tag", w: 1.2}, {head: "Room", w: 2.85}, {head: "Kind", w: 1.1},
+		{head: "Size", w: 1.3}, {head: "Factor", w: 0.75, align: "R"}, {head: "Design", w: 1.1, align: "R"},
+		{head: "As found", w: 1.15, align: "R"}, {head: "Final", w: 1.05, align: "R"}, {head: "% of design", w: 1, align: "R"},
+		{head: "Status", w: 1.5}}
 	if withRemarks {
-		cols[1].w, cols[3].w, cols[8].w = 2.2, 1.2, 1.7
-		cols = append(cols, column{head: "Remarks", w: 2.5})
+		cols[1].w, cols[3].w, cols[9].w = 2.05, 1.1, 1.7
+		cols = append(cols, column{head: "Remarks", w: 2.3})
 	}
 	t := d.newTable(cols...)
-	t.strong = func(col int, s string) bool { return (col == 8 && deficientLabel(s)) || (col == 0 && s == "Total") }
+	t.strong = func(col int, s string) bool { return (col == 9 && deficientLabel(s)) || (col == 0 && s == "Total") }
 	for i, o := range list {
-		size := dash
+		size, factor := dash, dash
 		if oo := d.outlets[o.ID]; oo != nil {
-			size = orDash(oo.Size)
+			size, factor = orDash(oo.Size), outletFactor(u, oo)
 		}
 		pctD := dash
 		if g := governing(o); g != nil && g.Tolerance != nil {
@@ -92,13 +96,10 @@ func (d *doc) outletTable(title string, list []*schema.OutletResult) {
 				st += " †"
 			}
 		}
-		for _, f := range o.Flags {
-			if f.Kind == schema.FlagInstrumentOverdue {
-				st += " *"
-				break
-			}
+		if g := governing(o); g != nil && overdueReading(o.Flags, g.ReadingID) {
+			st += " *"
 		}
-		t.row(o.Tag, orDash(o.Room), label(o.Kind), size, u.air(o.DesignFlow), stageFlow(u, o.AsFound),
+		t.row(o.Tag, orDash(o.Room), label(o.Kind), size, factor, u.air(o.DesignFlow), stageFlow(u, o.AsFound),
 			stageFlow(u, o.Final), pctD, st, remarks[i])
 	}
 	var partial []string
@@ -113,10 +114,16 @@ func (d *doc) outletTable(title string, list []*schema.OutletResult) {
 		if k.AsFoundRead > 0 {
 			af = u.air(k.AsFound)
 		}
-		if k.FinalRead > 0 {
-			fin = u.air(k.Final)
+		// One figure for the final column: each read outlet's final flow,
+		// else its as-found one, the sum the % of design is taken on.
+		if k.Read > 0 {
+			fin = u.air(k.Measured)
 		}
-		t.row("Total", what, "", "", u.air(k.Design), af, fin, u.pctP(k.PercentOfDesign), "", note)
+		if k.FinalRead < k.Read {
+			note = strings.TrimPrefix(note+"; final total: final, else as found ("+d.count(k.Read-k.FinalRead)+" as found)", "; ")
+			partial = append(partial, label(k.Kind)+" total: final, else as found ("+d.count(k.Read-k.FinalRead)+" as found)")
+		}
+		t.row("Total", what, "", "", "", u.air(k.Design), af, fin, u.pctP(k.PercentOfDesign), "", note)
 	}
 	t.end()
 	if !withRemarks {
@@ -159,4 +166,33 @@ func stageFlow(u units, r *schema.OutletReading) string {
 		return u.air(*r.Flow)
 	}
 	return "read, not computed"
+}
+
+// overdueReading says whether the reading with id is one an overdue
+// instrument took: the * marks the reading the status rests on, not the
+// outlet.
+func overdueReading(flags []schema.Flag, id string) bool {
+	for _, f := range flags {
+		if f.Kind != schema.FlagInstrumentOverdue {
+			continue
+		}
+		for _, r := range f.ReadingIDs {
+			if r == id {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// outletFactor is what turns an outlet's reading into its flow: the hood
+// correction factor, or the Ak of an anemometer reading.
+func outletFactor(u units, o *schema.Outlet) string {
+	if o.Method == "ak" {
+		return "Ak " + u.n(o.Ak, 3)
+	}
+	if o.Factor <= 0 {
+		return dash
+	}
+	return "× " + u.n(o.Factor, 2)
 }

@@ -19,23 +19,24 @@ func (d *doc) readingLog() {
 		d.para("No readings are stored for this job.", "", sizeBody)
 		return
 	}
-	d.para(fmt.Sprintf("All %s readings as entered, in the order they reached the store, times in the report's time zone. "+
+	d.para(fmt.Sprintf("All %s readings as entered (a hood reading before the outlet's correction factor), in the order they reached the store, times in the report's time zone. "+
 		"A correction replaces the reading it names and a void (no value) withdraws one, with its reason; both stay on record. "+
 		"Of the readings left, the latest taken of each item, point and stage counts; only readings marked \u201ccounts\u201d "+
 		"enter the figures above. \u201cConfirmed\u201d marks a value the technician confirmed when it was far from design or "+
 		"from its neighbours.", d.count(len(rs))), "", sizeBody)
 	lg := newLogIndex(rs)
 	labels := schema.UnitLabels()
-	t := d.newTable(column{head: "Taken", w: 1.75}, column{head: "On", w: 1.75}, column{head: "Reading", w: 1.25},
-		column{head: "Stage", w: 1}, column{head: "Value", w: 1.4, align: "R"}, column{head: "Instrument", w: 1.35},
-		column{head: "By", w: 1.2}, column{head: "Status and remarks", w: 2.85})
+	t := d.newTable(column{head: "Taken", w: 1.75}, column{head: "On", w: 1.15}, column{head: "Reading", w: 1.8},
+		column{head: "Stage", w: 0.9}, column{head: "Value", w: 1.2, align: "R"}, column{head: "Instrument", w: 1.75},
+		column{head: "By", w: 1.05}, column{head: "Status and remarks", w: 2.95})
 	t.strong = func(col int, s string) bool { return col == 7 && strings.HasPrefix(s, "counts") }
 	for i := range rs {
 		r := &rs[i]
-		what := label(r.Quantity)
-		if r.Point > 0 {
-			what += " " + strconv.Itoa(r.Point)
+		valve := false
+		if w := d.waters[r.SubjectID]; w != nil && r.SubjectKind == schema.SubjectWaterTest {
+			valve = w.FlowSource == "valve"
 		}
+		what := quantityName(r.SubjectKind, r.Quantity, r.Point, valve)
 		inst := dash
 		if in := d.insts[r.InstrumentID]; in != nil {
 			inst = in.Tag

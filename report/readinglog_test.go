@@ -39,7 +39,7 @@ func TestRenderReadingLog(t *testing.T) {
 		return p.readings[k].TakenAt.In(in.Generated.Location()).Format("2006-01-02 15:04")
 	}
 	for _, want := range []string{
-		"S-701 flow as found 301 cfm — Fixture tech superseded by the correction of " + when(1) + " (312 cfm)",
+		"S-701 hood reading as found 301 cfm — Fixture tech superseded by the correction of " + when(1) + " (312 cfm)",
 		"312 cfm — Fixture tech counts; corrects the reading of " + when(0) + " (301 cfm)",
 		"257 cfm — Fixture tech voided on " + when(3) + ": hood slipped off the diffuser",
 		"final — — Fixture tech void: withdraws the reading of " + when(2) + " (257 cfm); reason: hood slipped off the diffuser",

@@ -1,8 +1,9 @@
 package report
 
 import (
-	"strconv"
 	"strings"
+
+	"fieldtab/schema"
 )
 
 // Remarks: each record's own remark, and the notes the crew entered with
@@ -32,11 +33,11 @@ func (d *doc) readingNotes(kind, id string) []string {
 			if r.Void || replaced[r.ID] || (strings.TrimSpace(r.Note) == "" && !r.Confirmed) {
 				continue
 			}
-			what := label(r.Quantity)
-			if r.Point > 0 {
-				what += " " + strconv.Itoa(r.Point)
+			valve := false
+			if w := d.waters[r.SubjectID]; w != nil && r.SubjectKind == schema.SubjectWaterTest {
+				valve = w.FlowSource == "valve"
 			}
-			what += " (" + label(r.Stage) + ", " + d.dateTime(r.TakenAt) + ")"
+			what := quantityName(r.SubjectKind, r.Quantity, r.Point, valve) + " (" + label(r.Stage) + ", " + d.dateTime(r.TakenAt) + ")"
 			var text []string
 			if n := strings.TrimSpace(r.Note); n != "" {
 				text = append(text, n)

@@ -152,10 +152,10 @@ func TestRenderDemoJob(t *testing.T) {
 			t.Fatalf("fixture capacity test %s has no capacity to check: status %s, errors %q", ct.Tag, ct.Status, ct.Errors)
 		}
 		for _, w := range []string{
-			"Delivered total " + norm(pm(u.power(ct.Capacity.Total), u.powerU(ct.Uncertainty.Total))),
-			"Delivered sensible " + norm(pm(u.power(ct.Capacity.Sensible), u.powerU(ct.Uncertainty.Sensible))),
-			norm(u.capU(ct.Expected.Total)) + " total",
-			norm(u.pct(*ct.PercentOfExpected)) + " of expected: " + status(ct.Status),
+			"Delivered total " + norm(u.capPM(ct.Capacity.Total, ct.Uncertainty.Total, ct.Mode == "cooling")),
+			"Delivered sensible " + norm(u.capPM(ct.Capacity.Sensible, ct.Uncertainty.Sensible, ct.Mode == "cooling")),
+			norm(u.capU(ct.Expected.Total, ct.Mode == "cooling")) + " total",
+			norm(pm(u.pct(*ct.PercentOfExpected), u.pct(*ct.PercentOfExpectedUncertainty))) + " of expected: " + status(ct.Status),
 			"Psychrometric chart of " + ct.Tag,
 		} {
 			if !strings.Contains(raw, w) {
@@ -553,8 +553,8 @@ func TestRenderLargeJob(t *testing.T) {
 	if !strings.Contains(norm(pages[n-1]), fmt.Sprintf("Page %d of %d", n, n)) {
 		t.Errorf("the last page does not say it is page %d of %d", n, n)
 	}
-	row := regexp.MustCompile(`(?m)^([SRE]-\d+) `)
-	head := regexp.MustCompile(`(?m)^Tag\s+Room\s+Kind\s+Size\s+Design\s+As found\s+Final`)
+	row := regexp.MustCompile(`(?m)^\s*([SRE]-\d+) `)
+	head := regexp.MustCompile(`(?m)^\s*Tag\s+Room\s+Kind\s+Size\s+Factor\s+Design\s+As found\s+Final`)
 	listed := map[string]bool{}
 	outletPages := 0
 	for i, pg := range pages {

@@ -43,7 +43,7 @@ func withPM(fig string, tl *schema.ToleranceCheck, unc func(float64) string) str
 
 // traverseFlowText is a traverse stage's flow with its ±, % of design, band
 // and status.
-func traverseFlowText(u units, flow float64, unc *float64, tl *schema.ToleranceCheck) string {
+func traverseFlowText(u units, flow float64, unc *float64, tl *schema.ToleranceCheck, rho float64) string {
 	s := u.airU(flow)
 	if unc != nil {
 		s = pm(u.air(flow), u.airU(*unc))
@@ -51,8 +51,10 @@ func traverseFlowText(u units, flow float64, unc *float64, tl *schema.ToleranceC
 			s += " (method only for points with no instrument accuracy)"
 		}
 	}
+	// Actual flow at the plane, set against a design figure given as scheduled.
+	s += " at the plane's density (" + u.density(rho) + ")"
 	if tl != nil {
-		s += ": " + u.pct(tl.PercentOfDesign) + " of the system's design, band " + u.air(tl.Low) + "–" + u.airU(tl.High) +
+		s += ": " + u.pct(tl.PercentOfDesign) + " of the system's design airflow (as scheduled), band " + u.air(tl.Low) + "–" + u.airU(tl.High) +
 			", " + tolStatus(tl, false)
 	}
 	return s
@@ -72,7 +74,7 @@ func traverseStageRows(u units, tr *schema.TraverseResult) [][2]string {
 	if a.Flow == nil {
 		return [][2]string{{"Flow, as found", status(a.Status) + " (" + read + ")"}}
 	}
-	rows := [][2]string{{"Flow, as found", traverseFlowText(u, *a.Flow, a.FlowUncertainty, a.Tolerance)}}
+	rows := [][2]string{{"Flow, as found", traverseFlowText(u, *a.Flow, a.FlowUncertainty, a.Tolerance, tr.Density)}}
 	if a.MeanVelocity != nil {
 		rows = append(rows, [2]string{"Mean velocity, as found", u.velocityU(*a.MeanVelocity) + " (" + read + ")"})
 	}

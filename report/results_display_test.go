@@ -62,8 +62,8 @@ func TestRenderIssue9Results(t *testing.T) {
 	u := newUnits(r.Units)
 	for _, want := range []string{
 		// As found beside final, with its own ± and status.
-		"Flow, final " + norm(traverseFlowText(u, *tr.Flow, tr.FlowUncertainty, tr.Tolerance)),
-		"Flow, as found " + norm(traverseFlowText(u, *tr.AsFound.Flow, tr.AsFound.FlowUncertainty, tr.AsFound.Tolerance)),
+		"Flow, final " + norm(traverseFlowText(u, *tr.Flow, tr.FlowUncertainty, tr.Tolerance, tr.Density)),
+		"Flow, as found " + norm(traverseFlowText(u, *tr.AsFound.Flow, tr.AsFound.FlowUncertainty, tr.AsFound.Tolerance, tr.Density)),
 		"the method's own ±5 %",
 		// The conflict, its table and its finding.
 		"Conflicting readings: for the lead to resolve",
@@ -77,8 +77,8 @@ func TestRenderIssue9Results(t *testing.T) {
 		// The motor's voltage imbalance.
 		"AHU-9, motor: voltage imbalance 2.0 % is above 1 %: NEMA MG 1 calls for derating",
 		"Motor check",
-		// The capacity against the nameplate, labelled as such.
-		"rated, at the manufacturer's rating conditions, not the test's",
+		// An air handler's capacity against its scheduled figure, labelled as such.
+		schema.ExpectedBasisScheduled,
 	} {
 		if !strings.Contains(raw, norm(want)) {
 			t.Errorf("the report lacks %q", want)

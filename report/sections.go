@@ -97,16 +97,28 @@ func (d *doc) summary() [][2]string {
 	if c := count[schema.ResultError]; c > 0 {
 		rows = append(rows, [2]string{"Outlets whose flow could not be computed", d.count(c)})
 	}
-	within, judged := 0, 0
+	// Each system with a measured airflow is within, undetermined (the
+	// instruments cannot decide), out of tolerance, or not judged (a partial
+	// outlet sum, or no design airflow).
+	var within, undet, out, notJudged int
 	for _, s := range r.Systems {
-		if s.AirflowTolerance != nil {
-			judged++
-			if s.AirflowTolerance.Status == "within" {
-				within++
-			}
+		switch {
+		case s.Airflow == nil:
+		case s.AirflowTolerance == nil:
+			notJudged++
+		case s.AirflowTolerance.Status == "within":
+			within++
+		case s.AirflowTolerance.Status == "undetermined":
+			undet++
+		default:
+			out++
 		}
 	}
-	rows = append(rows, [2]string{"Systems with airflow within the fan tolerance", fmt.Sprintf("%s of %s with a measured airflow", d.count(within), d.count(judged))})
+	sysLine := fmt.Sprintf("%s within, %s undetermined, %s out of tolerance", d.count(within), d.count(undet), d.count(out))
+	if notJudged > 0 {
+		sysLine += fmt.Sprintf("; %s not judged (partial outlet sum or no design)", d.count(notJudged))
+	}
+	rows = append(rows, [2]string{"Systems' airflow against the fan tolerance", sysLine})
 	// A system meets capacity when every capacity test on it meets.
 	tested, meets := map[string]bool{}, map[string]bool{}
 	var order []string
@@ -238,8 +250,8 @@ func (d *doc) basis() {
 			" (NEMA MG 1 derating, from memory), current imbalance above " + d.u.pct(measure.CurrentUnbalanceNotePct) +
 			" (common practice), more than " + d.u.pct(measure.FullLoadPct) + " of FLA; fan speed or external static pressure more than " +
 			d.u.pct(schema.FanDesignDeviationPct) + " from design (common practice).",
-		"Fan laws (AMCA; ASHRAE Handbook—HVAC Systems and Equipment, fans chapter): flow ∝ speed, pressure ∝ speed², power ∝ speed³, " +
-			"on an unchanged system curve at constant density. They predict; a new reading proves.",
+		"Fan laws (AMCA; ASHRAE Handbook—HVAC Systems and Equipment, fans chapter): Q₂/Q₁ = N₂/N₁, P₂/P₁ = (N₂/N₁)², " +
+			"W₂/W₁ = (N₂/N₁)³ (Q flow, N fan speed, P pressure, W power), on an unchanged system curve at constant density. They predict; a new reading proves.",
 	}, sizeBody)
 
 	d.heading(1, "Tolerances")
@@ -295,7 +307,7 @@ func (d *doc) findings() {
 	d.para("Every deficiency the readings show, in the order of the sections that follow: what is out of tolerance, "+
 		"capacity short of expected, motors and fans off their limits or design, conflicting readings for the lead to resolve, "+
 		"water that contradicts its test's mode, readings taken with no instrument or with one past its calibration date, "+
-		"and outlets never read. "+d.limitsNote()+" The project specification governs.", "", sizeBody)
+		"and outlets never read. "+d.limitsNote()+governsOnce(d.s.Job.Tolerances), "", sizeBody)
 	t := d.newTable(column{head: "#", w: 0.5, align: "R"}, column{head: "Kind", w: 2.2},
 		column{head: "Where", w: 3}, column{head: "What", w: 7})
 	n := 0
@@ -375,8 +387,8 @@ func (d *doc) waterTests() {
 			"protection, open ports slowly, and let pressure and temperature down before opening a circuit; follow the site's "+
 			"safety rules and the project specification.", "B", sizeBody)
 	}
-	t := d.newTable(column{head: "Coil or circuit", w: 2.1}, column{head: "System", w: 1},
-		column{head: "Fluid", w: 1.9}, column{head: "Flow from", w: 1.4},
+	t := d.newTable(column{head: "Coil or circuit", w: 2}, column{head: "System", w: 0.9},
+		column{head: "Fluid", w: 1.6}, column{head: "Flow from", w: 2.3},
 		column{head: "ΔP (" + u.WaterPressure + ")", w: 0.9, align: "R"}, column{head: "Design (" + u.WaterFlow + ")", w: 1, align: "R"},
 		column{head: "Flow (" + u.WaterFlow + ")", w: 1.3, align: "R"}, column{head: "% of design", w: 0.9, align: "R"},
 		column{head: "Status", w: 1.6})
@@ -428,7 +440,7 @@ func (d *doc) waterTests() {
 		w := &d.r.WaterTests[i]
 		water, ctTag, air, diff, note := dash, dash, dash, dash, ""
 		if w.Capacity != nil {
-			water = u.power(w.Capacity.Capacity) + " (" + u.capAlt(w.Capacity.Capacity) + ") " + w.Capacity.Process
+			water = u.power(w.Capacity.Capacity) + " (" + u.capAlt(w.Capacity.Capacity, w.Capacity.Process == "cooling") + ") " + w.Capacity.Process
 		}
 		if wt := d.waters[w.ID]; wt != nil && wt.CapacityTest != "" {
 			if c := d.rCaps[wt.CapacityTest]; c != nil {
@@ -436,7 +448,7 @@ func (d *doc) waterTests() {
 			}
 		}
 		if a := w.AirSide; a != nil {
-			air, diff, note = u.power(a.AirTotal)+" ("+u.capAlt(a.AirTotal)+")", signedPct(u, a.DifferencePct), a.Note
+			air, diff, note = u.power(a.AirTotal)+" ("+u.capAlt(a.AirTotal, w.Capacity != nil && w.Capacity.Process == "cooling")+")", signedPct(u, a.DifferencePct), a.Note
 		}
 		if note == "" && len(w.Notes) > 0 {
 			note = strings.Join(w.Notes, "; ")
@@ -599,4 +611,13 @@ func (d *doc) unitSystem() measure.UnitSystem {
 		return measure.SI
 	}
 	return measure.IP
+}
+
+// governsOnce closes the findings' intro with the deferral to the
+// specification, unless the tolerance source already said it.
+func governsOnce(tol schema.Tolerances) string {
+	if strings.Contains(tolSource(tol), "governs") {
+		return ""
+	}
+	return " The project specification governs."
 }

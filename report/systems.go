@@ -33,17 +33,20 @@ func (d *doc) system(sr *schema.SystemResult) {
 		if sr.AirflowSource == "traverse" {
 			src = "traverse"
 			if tr := d.rTraverses[sr.AirflowTraverseID]; tr != nil {
-				src = "traverse " + tr.Tag
+				src = "traverse " + tr.Tag + ", at the plane's density (" + u.density(tr.Density) + ")"
 			}
 		} else if sr.Outlets.SupplyRead == 0 {
-			src = "exhaust outlets"
+			src = "exhaust outlets, as read"
 		} else {
-			src = "supply outlets"
+			src = "supply outlets, as read"
 		}
 		meas, pctD, band, st := u.airU(*sr.Airflow), dash, dash, dash
 		if tl := sr.AirflowTolerance; tl != nil {
 			meas = withPM(u.air(*sr.Airflow), tl, u.airU)
 			pctD, band, st = u.pct(tl.PercentOfDesign), u.air(tl.Low)+"–"+u.airU(tl.High), tolStatus(tl, true)
+		} else if sr.AirflowOutletsRead < sr.AirflowOutletsTotal {
+			// A partial sum lacks the unread outlets: it is not judged.
+			st = "not judged: " + itoa(sr.AirflowOutletsRead) + " of " + itoa(sr.AirflowOutletsTotal) + " outlets read"
 		}
 		t.row("System airflow, from "+src, designAir(u, sr.DesignAirflow), meas, pctD, band, st)
 	} else {
@@ -51,8 +54,14 @@ func (d *doc) system(sr *schema.SystemResult) {
 	}
 	o := sr.Outlets
 	if o.SupplyTotal > 0 {
-		t.row("Sum of supply outlets ("+itoa(o.SupplyRead)+" of "+itoa(o.SupplyTotal)+" read; their design sum "+u.airU(o.SupplyDesign)+")",
-			designAir(u, sr.DesignAirflow), u.airU(o.SupplyFlow), u.pctP(o.SupplyPercentOfDesign), dash, dash)
+		// The same basis as the outlet tables' totals: the flows read (final,
+		// else as found) over the design of the outlets read.
+		des := dash
+		if o.SupplyRead > 0 {
+			des = u.airU(o.SupplyDesignRead)
+		}
+		t.row("Sum of supply outlets, final else as found ("+itoa(o.SupplyRead)+" of "+itoa(o.SupplyTotal)+
+			" read; design of those read)", des, u.airU(o.SupplyFlow), u.pctP(o.SupplyPercentOfDesignRead), dash, dash)
 	}
 	if a := sr.OutletsVsTraverse; a != nil {
 		trTag := "the traverse"
@@ -67,6 +76,8 @@ func (d *doc) system(sr *schema.SystemResult) {
 			u.airU(a.OutletSum), u.pct(a.OutletSum/a.TraverseFlow*100), band, st)
 	}
 	t.end()
+	d.para("Design airflows are as scheduled. Measured airflows are actual: a traverse's at the density of the air at its "+
+		"plane, outlets as read (not corrected to standard air).", "", sizeSmall)
 	if o.Total > 0 {
 		line := "Outlets on the system: " + itoa(o.Total) + ", of which " + itoa(o.Read) + " read: " + itoa(o.Within) +
 			" within tolerance, " + itoa(o.Low) + " low, " + itoa(o.High) + " high, " + itoa(o.Undetermined) + " undetermined"
@@ -102,7 +113,7 @@ func (d *doc) system(sr *schema.SystemResult) {
 					pctD, band = u.pct(tl.PercentOfDesign), u.air(tl.Low)+"–"+u.airU(tl.High)
 				}
 			}
-			t.row("Outdoor-air outlet "+or.Tag+withRoom(or.Room), u.airU(or.DesignFlow), meas, pctD, band, status(or.Status))
+			t.row("Outdoor-air intake "+or.Tag+withRoom(or.Room), u.airU(or.DesignFlow), meas, pctD, band, status(or.Status))
 		}
 		t.end()
 	}
@@ -162,14 +173,16 @@ func (d *doc) fanAndMotor(sr *schema.SystemResult, design schema.SystemDesign) {
 		if design.Phase > 0 && volts != dash {
 			volts += ", " + itoa(design.Phase) + " phase"
 		}
-		t.row("Voltage", volts, legs(u, sr.Volts, 0, "V"), imbalance(u, sr.VoltageImbalance))
+		t.row("Voltage", volts, legs(u, sr.Volts, 0, "V", voltLegs[:]), imbalance(u, sr.VoltageImbalance))
 		t.row("Current", designOr(design.FLA, func(v float64) string { return nu(u.n(v, 1), "A") + " FLA" }),
-			legs(u, sr.Amps, 1, "A"), strings.Join(nonEmpty(pctFLA(u, sr.PercentFLA), imbalance(u, sr.CurrentImbalance)), "; "))
+			legs(u, sr.Amps, 1, "A", ampLegs[:]), strings.Join(nonEmpty(pctFLA(u, sr.PercentFLA), imbalance(u, sr.CurrentImbalance)), "; "))
+		// The nameplate's power is the motor's rated output (shaft), not the
+		// electrical input measured beside it: say so.
 		motor := dash
 		if design.MotorHP > 0 {
-			motor = u.n(design.MotorHP, 1) + " hp motor"
+			motor = nu(u.n(design.MotorHP, 1), "hp") + " (" + nu(u.n(design.MotorHP*kWPerHP, 1), "kW") + ") rated output"
 			if u.si {
-				motor = nu(u.n(design.MotorHP, 1), "kW") + " motor"
+				motor = nu(u.n(design.MotorHP, 1), "kW") + " rated output"
 			}
 		}
 		t.row("Input power", motor, u.kwP(sr.InputPowerKW), pfText(u, sr.PowerFactor))
@@ -229,6 +242,10 @@ func (d *doc) fanAndMotor(sr *schema.SystemResult, design schema.SystemDesign) {
 	}
 }
 
+// kWPerHP is one mechanical horsepower (550 ft·lbf/s) in kW (NIST SP 811,
+// appendix B.8: 745.6999 W).
+const kWPerHP = 0.7456999
+
 var staticOrder = []struct{ key, name string }{
 	{"static_external", "External static pressure"},
 	{"static_supply", "Supply static pressure"},
@@ -237,16 +254,17 @@ var staticOrder = []struct{ key, name string }{
 	{"static_coil", "Pressure drop, coil"},
 }
 
-// legs prints a motor reading per leg: "472 / 469 / 474 V".
-func legs(u units, vs []schema.LegValue, dec int, unit string) string {
+// legs prints a motor reading per leg, each named as names gives: volts
+// line to line ("L1–L2 472 / L2–L3 469 / L3–L1 474 V"), amps per line.
+func legs(u units, vs []schema.LegValue, dec int, unit string, names []string) string {
 	if len(vs) == 0 {
 		return dash
 	}
 	parts := make([]string, len(vs))
 	for i, v := range vs {
 		parts[i] = u.n(v.Value, dec)
-		if v.Leg > 0 {
-			parts[i] = "L" + itoa(v.Leg) + " " + parts[i]
+		if v.Leg > 0 && v.Leg < len(names) {
+			parts[i] = names[v.Leg] + " " + parts[i]
 		}
 	}
 	return nu(strings.Join(parts, " / "), unit)
@@ -319,20 +337,27 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 	air := dash
 	if ct.Airflow != nil {
 		air = u.flowOnBasis(*ct.Airflow, ct.FlowBasis) + ", from " + src
+		if ct.FlowSource == "outlets" && ct.FlowBasis == "standard" {
+			// Outlet flows are as read, not corrected: say what the mass
+			// flow takes them for, beside the figure.
+			air = u.airU(*ct.Airflow) + ", the sum of the supply outlets as read (not corrected to standard air), " +
+				"taken as standard air (" + standardAir(u.si) + ") for the mass flow"
+		}
 	}
+	cooling := ct.Mode == "cooling"
 	kv := [][2]string{{"Airflow", air}, {"Outdoor dry bulb", u.tempP(ct.OutdoorDB)}}
 	if c := ct.Capacity; c != nil {
 		unc := ct.Uncertainty
 		withU := func(v float64, du func(*schema.CapacityUncertainty) float64) string {
 			if unc == nil {
-				return u.capU(v)
+				return u.capU(v, cooling)
 			}
-			return u.capPM(v, du(unc))
+			return u.capPM(v, du(unc), cooling)
 		}
 		kv = append(kv,
 			[2]string{"Delivered total", withU(c.Total, func(x *schema.CapacityUncertainty) float64 { return x.Total }) + " (" + c.Process + ")"},
 			[2]string{"Delivered sensible", withU(c.Sensible, func(x *schema.CapacityUncertainty) float64 { return x.Sensible })},
-			[2]string{"Latent", u.capU(c.Latent)},
+			[2]string{"Latent", u.capU(c.Latent, cooling)},
 			[2]string{"Sensible heat ratio", u.n(c.SHR, 2)})
 		if unc != nil && len(unc.Omits) > 0 {
 			kv = append(kv, [2]string{"± leaves out", strings.Join(unc.Omits, ", ") + " (no accuracy on record)"})
@@ -343,9 +368,9 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 		if src == "" {
 			src = label(ex.Source)
 		}
-		exp := u.capU(ex.Total) + " total"
+		exp := u.capU(ex.Total, cooling) + " total"
 		if ex.Sensible != nil {
-			exp += ", " + u.capU(*ex.Sensible) + " sensible"
+			exp += ", " + u.capU(*ex.Sensible, cooling) + " sensible"
 		}
 		from := "from the " + src
 		if ex.Basis != "" {
@@ -361,10 +386,16 @@ func (d *doc) capacityTest(ct *schema.CapacityTestResult) {
 	}
 	verdict := status(ct.Status)
 	if ct.SideText != "" {
-		verdict += ": " + ct.SideText
+		// The side text says both where the figure lies and that the
+		// test's ± cannot decide: "undetermined" would say it twice.
+		verdict = ct.SideText
 	}
 	if ct.PercentOfExpected != nil {
-		verdict = u.pct(*ct.PercentOfExpected) + " of expected: " + verdict
+		pct := u.pct(*ct.PercentOfExpected)
+		if pu := ct.PercentOfExpectedUncertainty; pu != nil {
+			pct = pm(pct, u.pct(*pu))
+		}
+		verdict = pct + " of expected: " + verdict
 	}
 	kv = append(kv, [2]string{"Result", verdict})
 	if c := d.captests[ct.ID]; c != nil {

@@ -30,7 +30,7 @@ func (d *doc) traverse(tr *schema.TraverseResult) {
 	}
 	flowLabel := "Flow, " + label(tr.Stage)
 	if tr.Flow != nil {
-		kv = append(kv, [2]string{flowLabel, traverseFlowText(u, *tr.Flow, tr.FlowUncertainty, tr.Tolerance)})
+		kv = append(kv, [2]string{flowLabel, traverseFlowText(u, *tr.Flow, tr.FlowUncertainty, tr.Tolerance, tr.Density)})
 	} else {
 		kv = append(kv, [2]string{flowLabel, status(tr.Status)})
 	}

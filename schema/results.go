@@ -226,6 +226,11 @@ type OutletSummary struct {
 	SupplyFlow            float64  `json:"supply_flow"`
 	SupplyDesign          float64  `json:"supply_design"`
 	SupplyPercentOfDesign *float64 `json:"supply_percent_of_design,omitempty"`
+	// SupplyDesignRead sums the design flows of the supply outlets read, and
+	// SupplyPercentOfDesignRead is SupplyFlow over it: the like-for-like
+	// figure the report gives, the same basis as its outlet totals.
+	SupplyDesignRead          float64  `json:"supply_design_read"`
+	SupplyPercentOfDesignRead *float64 `json:"supply_percent_of_design_read,omitempty"`
 }
 
 // SystemResult is a system's outlet summary, airflow, motor and fan-law
@@ -243,15 +248,22 @@ type SystemResult struct {
 	AirflowSource     string          `json:"airflow_source,omitempty"` // "traverse" or "outlets"
 	AirflowTraverseID string          `json:"airflow_traverse_id,omitempty"`
 	AirflowTolerance  *ToleranceCheck `json:"airflow_tolerance,omitempty"` // job fan band
-	FanRPM            *float64        `json:"fan_rpm,omitempty"`
-	MotorRPM          *float64        `json:"motor_rpm,omitempty"`
-	Volts             []LegValue      `json:"volts,omitempty"`
-	Amps              []LegValue      `json:"amps,omitempty"`
-	PowerFactor       *float64        `json:"power_factor,omitempty"`
-	InputPowerKW      *float64        `json:"input_power_kw,omitempty"` // three-phase, with a power_factor reading
-	PercentFLA        *float64        `json:"percent_fla,omitempty"`    // highest leg
-	VoltageImbalance  *float64        `json:"voltage_imbalance_pct,omitempty"`
-	CurrentImbalance  *float64        `json:"current_imbalance_pct,omitempty"`
+	// AirflowOutletsRead of AirflowOutletsTotal outlets (of AirflowOutletKind,
+	// "supply" or "exhaust") make an outlet-sum airflow. A partial sum gets no
+	// tolerance status and no fan-law prediction: the unread outlets are
+	// missing from it.
+	AirflowOutletsRead  int        `json:"airflow_outlets_read,omitempty"`
+	AirflowOutletsTotal int        `json:"airflow_outlets_total,omitempty"`
+	AirflowOutletKind   string     `json:"airflow_outlet_kind,omitempty"`
+	FanRPM              *float64   `json:"fan_rpm,omitempty"`
+	MotorRPM            *float64   `json:"motor_rpm,omitempty"`
+	Volts               []LegValue `json:"volts,omitempty"`
+	Amps                []LegValue `json:"amps,omitempty"`
+	PowerFactor         *float64   `json:"power_factor,omitempty"`
+	InputPowerKW        *float64   `json:"input_power_kw,omitempty"` // three-phase, with a power_factor reading
+	PercentFLA          *float64   `json:"percent_fla,omitempty"`    // highest leg
+	VoltageImbalance    *float64   `json:"voltage_imbalance_pct,omitempty"`
+	CurrentImbalance    *float64   `json:"current_imbalance_pct,omitempty"`
 	// MotorStatus is "ok" or "warning" once a motor check can be made (the
 	// checks of `fieldtab calc motor`); MotorWarnings says which failed.
 	MotorStatus   string   `json:"motor_status,omitempty"`
@@ -381,9 +393,12 @@ type CapacityTestResult struct {
 	Uncertainty       *CapacityUncertainty `json:"uncertainty,omitempty"`
 	Expected          *ExpectedCapacity    `json:"expected,omitempty"`
 	PercentOfExpected *float64             `json:"percent_of_expected,omitempty"`
-	Warnings          []string             `json:"warnings,omitempty"`
-	Flags             []Flag               `json:"flags,omitempty"`
-	Errors            []string             `json:"errors,omitempty"`
+	// PercentOfExpectedUncertainty is the delivered total's ± as a % of the
+	// expected total.
+	PercentOfExpectedUncertainty *float64 `json:"percent_of_expected_uncertainty,omitempty"`
+	Warnings                     []string `json:"warnings,omitempty"`
+	Flags                        []Flag   `json:"flags,omitempty"`
+	Errors                       []string `json:"errors,omitempty"`
 }
 
 // CoilFigures is measure.CoilCapacity's result in the job's units.
@@ -407,6 +422,9 @@ type CapacityUncertainty struct {
 const (
 	ExpectedBasisPerfTable = "manufacturer's performance table at the test's conditions"
 	ExpectedBasisRated     = "rated, at the manufacturer's rating conditions, not the test's"
+	// An air handler's coil is selected for the job: its figure is the
+	// schedule's, at the design conditions the schedule gives.
+	ExpectedBasisScheduled = "scheduled capacity, at the schedule's design rating conditions, not the test's"
 )
 
 // ExpectedCapacity is what the unit should deliver: from its performance
@@ -534,6 +552,7 @@ type resInstrument struct {
 // resFlowSum is a sum of outlet flows with the sum of their uncertainties.
 type resFlowSum struct {
 	flow, unc   float64 // job air-flow units
+	designRead  float64 // design flows of the outlets read, job units
 	read, total int
 	unknown     bool // some outlet's instrument accuracy is not on record
 }
@@ -686,7 +705,7 @@ func (c *resultsCalc) instrument(in *Instrument) InstrumentResult {
 	}
 	due, err := time.Parse(time.DateOnly, in.CalibrationDue)
 	if err != nil {
-		ir.Errors = append(ir.Errors, fmt.Sprintf("calibration_due %q is not a date YYYY-MM-DD", in.CalibrationDue))
+		ir.Errors = append(ir.Errors, fmt.Sprintf("the calibration due date %q is not a date (YYYY-MM-DD)", in.CalibrationDue))
 		return ir
 	}
 	info.due, info.hasDue = due, true
@@ -725,7 +744,7 @@ func (c *resultsCalc) checkOverdue(k resKey, rd *Reading) {
 	c.flags[k] = append(fl, Flag{Kind: FlagInstrumentOverdue, InstrumentID: rd.InstrumentID,
 		ReadingIDs: []string{rd.ID},
 		Text: fmt.Sprintf("A reading (%s, %s) was taken with %s on %s, after its calibration was due on %s.",
-			strings.ReplaceAll(rd.Quantity, "_", " "), strings.ReplaceAll(rd.Stage, "_", " "), resInstName(info.in), taken.Format(time.DateOnly), info.in.CalibrationDue)})
+			quantityWords(rd.SubjectKind, rd.Quantity), words(rd.Stage), resInstName(info.in), taken.Format(time.DateOnly), info.in.CalibrationDue)})
 }
 
 func resInstName(in *Instrument) string {
@@ -900,7 +919,7 @@ func (c *resultsCalc) outlet(o *Outlet) OutletResult {
 		}
 		st, u, err := c.outletReading(o, rd)
 		if err != nil {
-			res.Errors = append(res.Errors, resErr(strings.ReplaceAll(stage, "_", "-")+" "+rd.Quantity+" reading", err))
+			res.Errors = append(res.Errors, resErr(words(stage)+" "+quantityWords(SubjectOutlet, rd.Quantity), err))
 		}
 		if stage == StageFinal {
 			res.Final = st
@@ -925,6 +944,7 @@ func (c *resultsCalc) outlet(o *Outlet) OutletResult {
 		if gov != nil && gov.Flow != nil {
 			sum.read++
 			sum.flow += *gov.Flow
+			sum.designRead += o.DesignFlow
 			sum.unc += u
 			if gov.Tolerance == nil || gov.Tolerance.UncertaintyUnknown {
 				sum.unknown = true
@@ -1019,7 +1039,7 @@ func (c *resultsCalc) airDensity(rs []*Reading) (resDensity, error) {
 	}
 	t, err := dbR.Temperature()
 	if err != nil {
-		return std, fmt.Errorf("air_db: %w; standard air used", err)
+		return std, fmt.Errorf("%s: %w; standard air used", quantityWords(SubjectTraverse, "air_db"), err)
 	}
 	spec := measure.AirSpec{DryBulb: t.In(c.u), Kind: measure.RelHum}
 	source := "dry_air"
@@ -1029,13 +1049,13 @@ func (c *resultsCalc) airDensity(rs []*Reading) (resDensity, error) {
 	case h.Quantity == "air_rh":
 		v, err := h.Number()
 		if err != nil {
-			return std, fmt.Errorf("air_rh: %w; standard air used", err)
+			return std, fmt.Errorf("%s: %w; standard air used", quantityWords(SubjectTraverse, "air_rh"), err)
 		}
 		spec.Humidity, source = v, "measured"
 	default:
 		wt, err := h.Temperature()
 		if err != nil {
-			return std, fmt.Errorf("air_wb: %w; standard air used", err)
+			return std, fmt.Errorf("%s: %w; standard air used", quantityWords(SubjectTraverse, "air_wb"), err)
 		}
 		spec.Kind, spec.Humidity, source = measure.WetBulb, wt.In(c.u), "measured"
 	}
@@ -1108,7 +1128,7 @@ func (c *resultsCalc) capacity(ct *CapacityTest) CapacityTestResult {
 	if odbR != nil {
 		t, err := odbR.Temperature()
 		if err != nil {
-			res.Errors = append(res.Errors, resErr("outdoor_db", err))
+			res.Errors = append(res.Errors, resErr(quantityWords(SubjectCapacityTest, "outdoor_db"), err))
 			odbR = nil
 		} else {
 			odb = t
@@ -1185,6 +1205,7 @@ func (c *resultsCalc) capacity(ct *CapacityTest) CapacityTestResult {
 	u := 0.0
 	if unc != nil {
 		u = unc.Total
+		res.PercentOfExpectedUncertainty = resPtr(u / exp.Total * 100)
 	}
 	switch {
 	case total-u >= threshold:
@@ -1193,11 +1214,11 @@ func (c *resultsCalc) capacity(ct *CapacityTest) CapacityTestResult {
 		res.Status = ResultShort
 	default:
 		res.Status = string(measure.StatusUndetermined)
-		res.Side = ResultShort
+		res.Side, res.SideText = ResultShort, "below"
 		if total >= threshold {
-			res.Side = ResultMeets
+			res.Side, res.SideText = ResultMeets, "above"
 		}
-		res.SideText = res.Side + ", within the uncertainty of the " + c.num(CapacityMeetsPct, 0) + " % line"
+		res.SideText += " the " + c.num(CapacityMeetsPct, 0) + " % line, but within the test's uncertainty of it"
 	}
 	return res
 }
@@ -1209,7 +1230,7 @@ func (c *resultsCalc) capacityFlow(ct *CapacityTest, rs []*Reading, res *Capacit
 	if ct.FlowBasis != "" {
 		b, err := measure.ParseFlowBasis(ct.FlowBasis)
 		if err != nil {
-			res.Errors = append(res.Errors, resErr("flow_basis", err))
+			res.Errors = append(res.Errors, resErr("flow basis", err))
 		} else {
 			basis = b
 		}
@@ -1219,7 +1240,7 @@ func (c *resultsCalc) capacityFlow(ct *CapacityTest, rs []*Reading, res *Capacit
 		tf := c.travFlow[ct.TraverseID]
 		switch {
 		case tf == nil:
-			res.Errors = append(res.Errors, "flow_source traverse: the traverse is not in this job")
+			res.Errors = append(res.Errors, "airflow from a traverse: the traverse is not in this job")
 		case !tf.computed:
 			res.Missing = append(res.Missing, fmt.Sprintf("traverse %s (%d of %d points read)", tf.tag, tf.read, tf.n))
 		default:
@@ -1238,7 +1259,7 @@ func (c *resultsCalc) capacityFlow(ct *CapacityTest, rs []*Reading, res *Capacit
 				sum.read, sum.total))
 		}
 		if ct.FlowBasis == "" {
-			res.Warnings = append(res.Warnings, "outlet flows taken as standard air (no flow_basis given)")
+			res.Warnings = append(res.Warnings, "the supply outlets' flows, as measured, are taken as standard air (no flow basis given)")
 		}
 		pct := 0.0
 		if sum.flow > 0 {
@@ -1263,7 +1284,7 @@ func (c *resultsCalc) capacityFlow(ct *CapacityTest, rs []*Reading, res *Capacit
 		}
 		return q, basis, pct, a.known
 	default:
-		res.Errors = append(res.Errors, fmt.Sprintf("flow_source %q is not traverse, outlets or direct", ct.FlowSource))
+		res.Errors = append(res.Errors, fmt.Sprintf("airflow source %q is not a traverse, the supply outlets or a direct reading", ct.FlowSource))
 	}
 	return 0, basis, 0, false
 }
@@ -1286,7 +1307,7 @@ func (c *resultsCalc) airSpecOf(rs []*Reading, side string, res *CapacityTestRes
 	used = [2]*Reading{dbR, h}
 	t, err := dbR.Temperature()
 	if err != nil {
-		res.Errors = append(res.Errors, resErr(side+"_db", err))
+		res.Errors = append(res.Errors, resErr(quantityWords(SubjectCapacityTest, side+"_db"), err))
 		return measure.AirSpec{}, used, false
 	}
 	spec := measure.AirSpec{DryBulb: t.In(c.u)}
@@ -1294,14 +1315,14 @@ func (c *resultsCalc) airSpecOf(rs []*Reading, side string, res *CapacityTestRes
 	case side + "_rh":
 		v, err := h.Number()
 		if err != nil {
-			res.Errors = append(res.Errors, resErr(h.Quantity, err))
+			res.Errors = append(res.Errors, resErr(quantityWords(SubjectCapacityTest, h.Quantity), err))
 			return spec, used, false
 		}
 		spec.Kind, spec.Humidity = measure.RelHum, v
 	default:
 		v, err := h.Temperature()
 		if err != nil {
-			res.Errors = append(res.Errors, resErr(h.Quantity, err))
+			res.Errors = append(res.Errors, resErr(quantityWords(SubjectCapacityTest, h.Quantity), err))
 			return spec, used, false
 		}
 		spec.Kind, spec.Humidity = measure.WetBulb, v.In(c.u)
@@ -1397,7 +1418,7 @@ func (c *resultsCalc) expectedCapacity(ct *CapacityTest, enter measure.AirState,
 			res.Errors = append(res.Errors, resErr("performance table of "+sys.Tag, pt.err))
 			note = "the performance table could not be read"
 		case !haveODB:
-			note = "no outdoor_db reading for the performance table"
+			note = "no outdoor dry bulb reading for the performance table"
 		default:
 			tot, sen, err := pt.t.Expected(measure.TemperatureIn(c.u, enter.WetBulb), odb, flow)
 			if err == nil {
@@ -1409,6 +1430,9 @@ func (c *resultsCalc) expectedCapacity(ct *CapacityTest, enter measure.AirState,
 	}
 	if sys.Design.RatedTotal > 0 {
 		e := &ExpectedCapacity{Source: "nameplate", Basis: ExpectedBasisRated, Total: sys.Design.RatedTotal}
+		if sys.Kind == "air_handler" {
+			e.Basis = ExpectedBasisScheduled
+		}
 		if sys.Design.RatedSensible > 0 {
 			e.Sensible = resPtr(sys.Design.RatedSensible)
 		}
@@ -1448,7 +1472,7 @@ func (c *resultsCalc) water(wt *WaterTest) WaterTestResult {
 		}
 		t, err := r.Temperature()
 		if err != nil {
-			res.Errors = append(res.Errors, resErr(q, err))
+			res.Errors = append(res.Errors, resErr(quantityWords(SubjectWaterTest, q), err))
 			haveTemps = false
 			continue
 		}
@@ -1475,12 +1499,12 @@ func (c *resultsCalc) water(wt *WaterTest) WaterTestResult {
 		}
 		dp, err := r.Pressure()
 		if err != nil {
-			res.Errors = append(res.Errors, resErr("dp", err))
+			res.Errors = append(res.Errors, resErr(quantityWords(SubjectWaterTest, "dp"), err))
 			break
 		}
 		res.DP = resPtr(c.waterPressureIn(dp))
 		if dp <= 0 {
-			res.Errors = append(res.Errors, "dp: the valve's pressure drop must be above 0 (a negative reading usually means the hoses are swapped)")
+			res.Errors = append(res.Errors, "valve pressure drop: it must be above 0 (a negative reading usually means the hoses are swapped)")
 			break
 		}
 		// SG at the mean water temperature; 60 °F, the reference of Cv, when
@@ -1540,7 +1564,7 @@ func (c *resultsCalc) water(wt *WaterTest) WaterTestResult {
 			acc.Abs = measure.VolumeFlow(a.abs).WaterIn(c.u)
 		}
 	default:
-		res.Errors = append(res.Errors, fmt.Sprintf("flow_source %q is not valve or meter", wt.FlowSource))
+		res.Errors = append(res.Errors, fmt.Sprintf("water flow source %q is not a valve or a meter", wt.FlowSource))
 	}
 
 	if flow > 0 {
@@ -1616,7 +1640,7 @@ func (c *resultsCalc) system(sys *System) SystemResult {
 		}
 		v, err := r.Number()
 		if err != nil {
-			res.Errors = append(res.Errors, resErr(q, err))
+			res.Errors = append(res.Errors, resErr(quantityWords(SubjectSystem, q), err))
 			return nil, false
 		}
 		return &v, true
@@ -1667,7 +1691,7 @@ func (c *resultsCalc) system(sys *System) SystemResult {
 		}
 		p, err := r.Pressure()
 		if err != nil {
-			res.Errors = append(res.Errors, resErr(q, err))
+			res.Errors = append(res.Errors, resErr(quantityWords(SubjectSystem, q), err))
 			continue
 		}
 		if res.Statics == nil {
@@ -1683,7 +1707,7 @@ func (c *resultsCalc) system(sys *System) SystemResult {
 		}
 		l, err := r.Length()
 		if err != nil {
-			res.Errors = append(res.Errors, resErr(q, err))
+			res.Errors = append(res.Errors, resErr(quantityWords(SubjectSystem, q), err))
 			continue
 		}
 		if q == "motor_sheave" {
@@ -1703,20 +1727,23 @@ func (c *resultsCalc) system(sys *System) SystemResult {
 			kind, sum = "exhaust", ex
 		}
 	}
-	unknown := false
+	unknown, partial := false, false
 	if tf := c.sysTrav[sys.ID]; tf != nil {
 		flow, acc.Pct, unknown = tf.flow, tf.accPct, !tf.accKnown
 		res.AirflowSource, res.AirflowTraverseID = "traverse", tf.id
 	} else if sum != nil && sum.read > 0 {
 		flow, acc.Abs, unknown = measure.AirFlowIn(c.u, sum.flow), sum.unc, sum.unknown
 		res.AirflowSource = "outlets"
+		res.AirflowOutletsRead, res.AirflowOutletsTotal, res.AirflowOutletKind = sum.read, sum.total, kind
 		if sum.read < sum.total {
-			res.Notes = append(res.Notes, fmt.Sprintf("airflow is the sum of %d of %d %s outlets", sum.read, sum.total, kind))
+			partial = true
+			res.Notes = append(res.Notes, fmt.Sprintf("airflow is the sum of %d of %d %s outlets: a partial sum, "+
+				"so it is not judged against the design airflow and the fan laws are not applied to it", sum.read, sum.total, kind))
 		}
 	}
 	if flow > 0 {
 		res.Airflow = resPtr(flow.AirIn(c.u))
-		if sys.Design.Airflow > 0 {
+		if sys.Design.Airflow > 0 && !partial {
 			tol, err := c.tolerance(*res.Airflow, sys.Design.Airflow, c.fanBand(), acc)
 			if err != nil {
 				res.Errors = append(res.Errors, resErr("airflow tolerance", err))
@@ -1726,7 +1753,7 @@ func (c *resultsCalc) system(sys *System) SystemResult {
 			}
 		}
 	}
-	if flow > 0 && sys.Design.Airflow > 0 && res.FanRPM != nil {
+	if flow > 0 && sys.Design.Airflow > 0 && res.FanRPM != nil && !partial {
 		c.fanLaw(sys, flow, *res.FanRPM, res.Statics, res.InputPowerKW, motorSheave, &res)
 	}
 	c.systemChecks(sys, &res)
@@ -1769,7 +1796,7 @@ func (c *resultsCalc) fanLaw(sys *System, flow measure.VolumeFlow, rpm float64, 
 		if sp >= 0 {
 			now.StaticPressure = measure.DuctPressureIn(c.u, sp)
 		} else {
-			res.Errors = append(res.Errors, "static_external is negative: left out of the fan-law prediction")
+			res.Errors = append(res.Errors, "external static pressure is negative: left out of the fan-law prediction")
 		}
 	}
 	if kw != nil {
@@ -1829,7 +1856,10 @@ func (c *resultsCalc) outletSummary(sys *System, res *SystemResult) {
 		}
 	}
 	if s := c.supply[sys.ID]; s != nil {
-		sum.SupplyTotal, sum.SupplyRead, sum.SupplyFlow = s.total, s.read, s.flow
+		sum.SupplyTotal, sum.SupplyRead, sum.SupplyFlow, sum.SupplyDesignRead = s.total, s.read, s.flow, s.designRead
+		if s.designRead > 0 {
+			sum.SupplyPercentOfDesignRead = resPtr(s.flow / s.designRead * 100)
+		}
 	}
 	if sys.Design.Airflow > 0 && sum.SupplyRead > 0 {
 		sum.SupplyPercentOfDesign = resPtr(sum.SupplyFlow / sys.Design.Airflow * 100)
@@ -1900,9 +1930,9 @@ func (c *resultsCalc) findings() {
 	for _, ct := range r.CapacityTests {
 		subj := SubjectRef{SubjectCapacityTest, ct.ID, ct.Tag}
 		if ct.Status == ResultShort && ct.PercentOfExpected != nil {
-			add(FindingCapacityShort, subj, fmt.Sprintf("%s: delivered %s %s is %s %% of the expected %s %s (%s); at least %s %% is required (common practice).",
-				ct.Tag, c.num(ct.Capacity.Total, 0), c.units.Power, c.num(*ct.PercentOfExpected, 0),
-				c.num(ct.Expected.Total, 0), c.units.Power, ct.Expected.Basis, c.num(CapacityMeetsPct, 0)))
+			add(FindingCapacityShort, subj, fmt.Sprintf("%s: delivered %s is %s %% of the expected %s (%s); the usual acceptance is %s %% (common practice; the project specification governs).",
+				ct.Tag, c.capWords(ct.Capacity.Total, ct.Mode), c.num(*ct.PercentOfExpected, 0),
+				c.capWords(ct.Expected.Total, ct.Mode), ct.Expected.Basis, c.num(CapacityMeetsPct, 0)))
 		}
 		flagFindings(subj, ct.Flags)
 	}

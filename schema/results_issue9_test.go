@@ -316,7 +316,10 @@ func TestResultsToleranceSideAndCapacityBasis(t *testing.T) {
 		t.Errorf("tolerance = %+v", tol)
 	}
 
-	b2, _, ct := resCapacityJob(90000)
+	// A packaged unit's figure is the maker's rating; an air handler's coil
+	// is the schedule's figure at its design conditions.
+	b2, sys2, ct := resCapacityJob(90000)
+	sys2.Kind = "rooftop_unit"
 	resReadCapacity(b2, ct, "", "", "")
 	r2 := b2.compute(t)
 	ex := r2.CapacityTests[0].Expected
@@ -324,9 +327,16 @@ func TestResultsToleranceSideAndCapacityBasis(t *testing.T) {
 		t.Fatalf("expected = %+v", ex)
 	}
 	f := resFinding(r2, FindingCapacityShort, ct.ID)
+	// 90,000 Btu/h = 90.0 MBH = 7.50 tons (12,000 Btu/h a ton).
 	if f == nil || !strings.Contains(f.Text, "rated, at the manufacturer's rating conditions, not the test's") ||
-		!strings.Contains(f.Text, "90,000 Btu/h") || !strings.Contains(f.Text, "(common practice)") {
+		!strings.Contains(f.Text, "90,000 Btu/h (90.0 MBH, 7.50 tons)") ||
+		!strings.Contains(f.Text, "the usual acceptance is 95 % (common practice; the project specification governs)") {
 		t.Errorf("finding = %+v", f)
+	}
+	b3, _, ct3 := resCapacityJob(90000)
+	resReadCapacity(b3, ct3, "", "", "")
+	if ex := b3.compute(t).CapacityTests[0].Expected; ex == nil || ex.Basis != ExpectedBasisScheduled {
+		t.Errorf("air handler's expected = %+v, want the scheduled basis", ex)
 	}
 }
 

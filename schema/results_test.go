@@ -152,23 +152,33 @@ func TestResultsOutlets(t *testing.T) {
 	t.Run("OKSystemSummary", func(t *testing.T) {
 		s := r.Systems[0].Outlets
 		want := OutletSummary{Total: 3, Read: 2, Within: 1, Low: 1, SupplyTotal: 3, SupplyRead: 2,
-			SupplyFlow: 563.5, SupplyDesign: 850}
+			SupplyFlow: 563.5, SupplyDesign: 850, SupplyDesignRead: 650}
 		got := s
-		got.SupplyPercentOfDesign = nil
+		got.SupplyPercentOfDesign, got.SupplyPercentOfDesignRead = nil, nil
 		if got != want {
 			t.Errorf("summary = %+v, want %+v", got, want)
 		}
-		if s.SupplyPercentOfDesign == nil {
+		if s.SupplyPercentOfDesign == nil || s.SupplyPercentOfDesignRead == nil {
 			t.Fatal("no supply % of design")
 		}
 		resClose(t, "supply % of design", *s.SupplyPercentOfDesign, 56.35, 1e-9)
+		// By hand: 563.5 cfm over the 400 + 250 cfm design of the two read.
+		resClose(t, "supply % of the design of those read", *s.SupplyPercentOfDesignRead, 563.5/650*100, 1e-9)
 		sr := r.Systems[0]
-		if sr.AirflowSource != "outlets" || sr.Airflow == nil || sr.AirflowTolerance == nil {
+		if sr.AirflowSource != "outlets" || sr.Airflow == nil {
 			t.Fatalf("system airflow = %+v", sr)
 		}
-		// Fan band −5/+10 % of 1000 cfm; 563.5 ± (16.055 + 0) is far below.
-		if sr.AirflowTolerance.Status != "low" {
-			t.Errorf("system airflow status = %q, want low", sr.AirflowTolerance.Status)
+		// Two of three supply outlets read: a partial sum is neither judged
+		// against the fan band nor fed to the fan laws (the third outlet's
+		// flow is missing from it, not zero).
+		if sr.AirflowTolerance != nil || sr.FanLaw != nil {
+			t.Errorf("partial sum judged: tolerance %+v, fan law %+v; want neither", sr.AirflowTolerance, sr.FanLaw)
+		}
+		if sr.AirflowOutletsRead != 2 || sr.AirflowOutletsTotal != 3 || sr.AirflowOutletKind != "supply" {
+			t.Errorf("airflow outlets = %d of %d %s, want 2 of 3 supply", sr.AirflowOutletsRead, sr.AirflowOutletsTotal, sr.AirflowOutletKind)
+		}
+		if resFinding(r, FindingAirflowOutOfTolerance, sr.ID) != nil {
+			t.Error("a partial outlet sum made an airflow finding")
 		}
 	})
 	t.Run("OKUnits", func(t *testing.T) {
@@ -489,9 +499,14 @@ func TestResultsCapacity(t *testing.T) {
 			t.Errorf("status = %q, want undetermined (± %.0f on %.0f)", cr.Status, cr.Uncertainty.Total, cr.Capacity.Total)
 		}
 		// 96 % is above the 95 % line itself: the meets side.
-		if cr.Side != ResultMeets || cr.SideText != "meets, within the uncertainty of the 95 % line" {
+		if cr.Side != ResultMeets || cr.SideText != "above the 95 % line, but within the test's uncertainty of it" {
 			t.Errorf("side %q %q, want meets", cr.Side, cr.SideText)
 		}
+		// The ± as a % of expected: the same ratio as ± over the total.
+		if cr.PercentOfExpectedUncertainty == nil {
+			t.Fatal("no ± in % of expected")
+		}
+		resClose(t, "± % of expected", *cr.PercentOfExpectedUncertainty, cr.Uncertainty.Total/cr.Expected.Total*100, 1e-9)
 	})
 	t.Run("OKPerfTable", func(t *testing.T) {
 		csv, err := os.ReadFile("../testdata/perf_rtu_example.csv")

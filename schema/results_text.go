@@ -63,3 +63,17 @@ func sideText(side measure.Status) string {
 	}
 	return ""
 }
+
+// capWords is a capacity (Btu/h or W) with the trade's larger units in
+// brackets: MBH, and tons of refrigeration (12,000 Btu/h) for cooling only,
+// in IP; kW in SI. "84,263 Btu/h (84.3 MBH, 7.02 tons)".
+func (c *resultsCalc) capWords(v float64, mode string) string {
+	if c.u == measure.SI {
+		return c.numU(v, 0, c.units.Power) + " (" + c.numU(v/1000, 1, "kW") + ")"
+	}
+	alt := c.numU(v/1000, 1, "MBH")
+	if mode == "cooling" {
+		alt += ", " + c.numU(measure.BtuPerHour(v).Tons(), 2, "tons")
+	}
+	return c.numU(v, 0, c.units.Power) + " (" + alt + ")"
+}
