@@ -1808,8 +1808,15 @@ func (c *resultsCalc) fanLaw(sys *System, flow measure.VolumeFlow, rpm float64, 
 		res.Errors = append(res.Errors, resErr("fan laws", err))
 		return
 	}
+	if change := (p.RPM/rpm - 1) * 100; math.Abs(change) > FanLawReachPct {
+		res.Notes = append(res.Notes, fmt.Sprintf("no fan-law prediction: design airflow needs the fan %s %% %s, beyond the "+
+			"±%s %% the fan laws are trusted for here (common practice); check the fan's curve, its maximum safe speed and the motor first",
+			c.num(math.Abs(change), 0), map[bool]string{true: "faster", false: "slower"}[change > 0], c.num(FanLawReachPct, 0)))
+		return
+	}
 	fl := &FanLawPrediction{TargetFlow: sys.Design.Airflow, FanRPM: p.RPM,
-		Note: "Fan laws on an unchanged system curve; motor input power scales like shaft power only while the motor's efficiency holds. Lock out and tag out the drive before changing a sheave or belt."}
+		Note: "Fan laws on an unchanged system curve; motor input power scales like shaft power only while the motor's efficiency holds. " +
+			"Never run the fan past its maximum safe speed (the maker's data). Lock out and tag out the drive before changing a sheave or belt."}
 	if now.StaticPressure > 0 {
 		fl.StaticPressure = resPtr(p.StaticPressure.DuctIn(c.u))
 	}

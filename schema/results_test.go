@@ -743,6 +743,29 @@ func TestResultsSystem(t *testing.T) {
 	}
 }
 
+// TestResultsFanLawReach: a design airflow far from the one read asks for a
+// speed the fan laws alone cannot vouch for; no prediction is given, and a
+// note says why (FanLawReachPct, common practice).
+func TestResultsFanLawReach(t *testing.T) {
+	b, sys, tr := resTraverseJob()
+	for p := 1; p <= 25; p++ {
+		b.read(SubjectTraverse, tr.ID, "vp", p, 0.05, UnitInWG, StageAsFound, "") // about 1,800 cfm against 4,000
+	}
+	b.read(SubjectSystem, sys.ID, "fan_rpm", 0, 850, UnitRPM, StageFinal, "")
+	r := b.compute(t)
+	s := r.Systems[0]
+	if s.FanLaw != nil {
+		t.Errorf("fan-law prediction %+v for a change of %.0f %%; want none", s.FanLaw, (4000 / *r.Traverses[0].Flow - 1)*100)
+	}
+	found := false
+	for _, n := range s.Notes {
+		found = found || strings.Contains(n, "no fan-law prediction") && strings.Contains(n, "faster") && strings.Contains(n, "maximum safe speed")
+	}
+	if !found {
+		t.Errorf("notes %q; want why there is no prediction", s.Notes)
+	}
+}
+
 func TestResultsErrorsStayOnItems(t *testing.T) {
 	t.Run("ErrNilSnapshot", func(t *testing.T) {
 		_, err := ComputeResults(nil, resToday)

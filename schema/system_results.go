@@ -12,6 +12,13 @@ import (
 // finding. Common practice, not from a standard: the specification governs.
 const FanDesignDeviationPct = 10.0
 
+// FanLawReachPct is the largest speed change, in percent of the speed read,
+// for which the results give a fan-law prediction. Past it the fan's curve,
+// its maximum safe speed and the motor's power govern, and a figure from the
+// laws alone (a fan at six times its speed) would mislead. Common practice,
+// not from a standard.
+const FanLawReachPct = 30.0
+
 // Motor statuses: the checks of `fieldtab calc motor` on the system's readings.
 const (
 	MotorOK      = "ok"      // every check that the readings allow passes

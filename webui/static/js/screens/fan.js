@@ -89,7 +89,9 @@ export function render(ctx) {
       (add) => [instrumentSelect(ctx, st, 'speed', ['tachometer'], { label: 'Tachometer' }), grid(add('q-fan_rpm', 'Fan', 'fan_rpm', 0, 'speed'), add('q-motor_rpm', 'Motor', 'motor_rpm', 0, 'speed'))],
       () => [row('Fan / motor speed', `${num(res.fan_rpm, 0)} / ${num(res.motor_rpm, 0)} rpm`), row('Design fan speed', num(d.fan_rpm, 0, 'rpm')), res.fan_rpm_percent_of_design !== undefined && row('Fan speed, % of design', pct(res.fan_rpm_percent_of_design), 'fan-rpm-pct'),
         fl && h('div', { class: 'scr-agree', 'data-test': 'fan-law' }, h('h3', {}, `To reach design (${num(fl.target_flow, 0, U.air_flow)})`),
-          row('Fan speed', num(fl.fan_rpm, 0, 'rpm'), 'fan-law-rpm'), row('Input power', kw(fl.input_power_kw), 'fan-law-power'), fl.note && h('p', { class: 'hint' }, fl.note))]),
+          row('Fan speed', num(fl.fan_rpm, 0, 'rpm'), 'fan-law-rpm'), row('Input power', kw(fl.input_power_kw), 'fan-law-power'), fl.note && h('p', { class: 'hint' }, fl.note)),
+        // Why there is no "to reach design" (a partial sum, or beyond the laws' reach).
+        !fl && (res.notes || []).filter((n) => /fan-law/.test(n)).map((n) => h('p', { class: 'msg msg-warn', 'data-test': 'fan-law-none' }, n))]),
     step(3, 'Volts and amps', 'electrical', caution('electrical'),
       (add) => [instrumentSelect(ctx, st, 'electrical', ['clamp_meter', 'multimeter'], { label: 'Meter', test: 'instrument-electrical' }),
         h('p', { class: 'hint' }, phases === 1 ? 'Single phase: one reading each.' : 'Volts line to line, amps on each line.'),
