@@ -71,11 +71,11 @@ func (d *doc) outletTable(title string, list []*schema.OutletResult) {
 		withRemarks = withRemarks || remarks[i] != ""
 	}
 	cols := []column{{head: "Tag", w: 1.2}, {head: "Room", w: 2.85}, {head: "Kind", w: 1.1},
-		{head: "Size", w: 1.3}, {head: "Factor", w: 0.75, align: "R"}, {head: "Design", w: 1.1, align: "R"},
+		{head: "Size", w: 1.3}, {head: "Factor", w: 0.85, align: "R"}, {head: "Design", w: 1.1, align: "R"},
 		{head: "As found", w: 1.15, align: "R"}, {head: "Final", w: 1.05, align: "R"}, {head: "% of design", w: 1, align: "R"},
 		{head: "Status", w: 1.5}}
 	if withRemarks {
-		cols[1].w, cols[3].w, cols[9].w = 2.05, 1.1, 1.7
+		cols[1].w, cols[3].w, cols[9].w = 1.95, 1.0, 1.7
 		cols = append(cols, column{head: "Remarks", w: 2.3})
 	}
 	t := d.newTable(cols...)
@@ -186,7 +186,8 @@ func overdueReading(flags []schema.Flag, id string) bool {
 }
 
 // outletFactor is what turns an outlet's reading into its flow: the hood
-// correction factor, or the Ak of an anemometer reading.
+// correction factor the reading is multiplied by, or the Ak of an
+// anemometer reading.
 func outletFactor(u units, o *schema.Outlet) string {
 	if o.Method == "ak" {
 		return "Ak " + u.n(o.Ak, 3)
@@ -194,5 +195,5 @@ func outletFactor(u units, o *schema.Outlet) string {
 	if o.Factor <= 0 {
 		return dash
 	}
-	return "× " + u.n(o.Factor, 2)
+	return u.n(o.Factor, 2)
 }

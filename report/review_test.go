@@ -105,7 +105,7 @@ func TestRenderReviewFixes(t *testing.T) {
 		// Totals: final, else as found.
 		"exhaust total: final, else as found (1 as found)",
 		// The hood factor beside the flow it makes; the log's reading as entered.
-		"× 1.04",
+		"S-R2 Hall supply 24x24 1.04 500",
 		// Volts line to line, amps per line.
 		"L1–L2 460 / L2–L3 467 / L3–L1 450 V", "L1 6.0 / L2 6.2 / L3 6.1 A",
 		// Motor output is not input power.

@@ -388,7 +388,7 @@ func (d *doc) waterTests() {
 			"safety rules and the project specification.", "B", sizeBody)
 	}
 	t := d.newTable(column{head: "Coil or circuit", w: 2}, column{head: "System", w: 0.9},
-		column{head: "Fluid", w: 1.6}, column{head: "Flow from", w: 2.3},
+		column{head: "Fluid", w: 1.3}, column{head: "Flow from", w: 2.9},
 		column{head: "ΔP (" + u.WaterPressure + ")", w: 0.9, align: "R"}, column{head: "Design (" + u.WaterFlow + ")", w: 1, align: "R"},
 		column{head: "Flow (" + u.WaterFlow + ")", w: 1.3, align: "R"}, column{head: "% of design", w: 0.9, align: "R"},
 		column{head: "Status", w: 1.6})
