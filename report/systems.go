@@ -248,8 +248,8 @@ const kWPerHP = 0.7456999
 
 var staticOrder = []struct{ key, name string }{
 	{"static_external", "External static pressure"},
-	{"static_supply", "Supply static pressure"},
-	{"static_return", "Return static pressure"},
+	{"static_supply", "Fan discharge static pressure"},
+	{"static_return", "Fan inlet (suction) static pressure"},
 	{"static_filter", "Pressure drop, filter"},
 	{"static_coil", "Pressure drop, coil"},
 }
