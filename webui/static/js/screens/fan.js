@@ -74,7 +74,8 @@ export function render(ctx) {
   put(root, header(`Fan and motor ${sys.tag}`, [kindWord(sys.kind), sys.name].filter(Boolean).join(' · ')),
     onRoof(sys) && caution('roof'), caution('rotating'),
     h('div', { class: 'card' }, h('div', { class: 'scr-picks' }, stageSelect(st, () => ctx.rerender())),
-      row('Airflow', res && res.airflow !== undefined ? num(res.airflow, 0, U.air_flow) + ({ traverse: ` (from the traverse${(byId(results(ctx).traverses, res.airflow_traverse_id) || {}).density_source === 'standard' ? ', standard air' : ''})`, outlets: ' (sum of the outlets)' }[res.airflow_source] || '') : 'not measured yet', 'fan-airflow'),
+      row('Airflow', res && res.airflow !== undefined ? num(res.airflow, 0, U.air_flow) + ({ traverse: ` (from the traverse${(byId(results(ctx).traverses, res.airflow_traverse_id) || {}).density_source === 'standard' ? ', standard air' : ''})`, outlets: res.airflow_outlets_read < res.airflow_outlets_total
+        ? ` (sum of ${res.airflow_outlets_read} of ${res.airflow_outlets_total} outlets read: not judged until all are)` : ' (sum of the outlets)' }[res.airflow_source] || '') : 'not measured yet', 'fan-airflow'),
       row('Design airflow', num(d.airflow, 0, U.air_flow)),
       res && tolerance(res.airflow_tolerance, U.air_flow),
       res && res.outlets_vs_traverse && h('div', { class: 'scr-tol', 'data-test': 'fan-agreement' }, agreeText(res.outlets_vs_traverse, U.air_flow), statusBadge(res.outlets_vs_traverse.status), sideLine(res.outlets_vs_traverse.tolerance)),
