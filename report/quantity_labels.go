@@ -10,7 +10,8 @@ import (
 // kind: the trade's terms, not the store's codes.
 var quantityNames = map[string]map[string]string{
 	schema.SubjectOutlet: {"flow": "hood reading", "velocity": "anemometer velocity"},
-	schema.SubjectTraverse: {"vp": "velocity pressure", "velocity": "velocity", "air_db": "duct dry bulb",
+	// "VP", as the trade writes it, keeps a traverse point's row on one line.
+	schema.SubjectTraverse: {"vp": "VP", "velocity": "velocity", "air_db": "duct dry bulb",
 		"air_rh": "duct relative humidity", "air_wb": "duct wet bulb", "static": "duct static pressure"},
 	schema.SubjectCapacityTest: {"flow": "airflow", "enter_db": "entering dry bulb", "enter_wb": "entering wet bulb",
 		"enter_rh": "entering relative humidity", "enter_dp": "entering dew point", "leave_db": "leaving dry bulb",
@@ -19,7 +20,7 @@ var quantityNames = map[string]map[string]string{
 	schema.SubjectWaterTest: {"dp": "pressure drop (ΔP)", "flow": "water flow (meter)", "enter_temp": "entering water",
 		"leave_temp": "leaving water"},
 	schema.SubjectSystem: {"fan_rpm": "fan speed", "motor_rpm": "motor speed", "volts": "volts", "amps": "amps",
-		"static_supply": "supply static", "static_return": "return static", "static_external": "external static",
+		"static_supply": "fan discharge static", "static_return": "fan inlet static", "static_external": "external static",
 		"static_filter": "filter pressure drop", "static_coil": "coil pressure drop", "motor_sheave": "motor sheave pitch diameter",
 		"fan_sheave": "fan sheave pitch diameter", "power_factor": "power factor"},
 }
@@ -31,8 +32,8 @@ var (
 	ampLegs  = [...]string{"", "L1", "L2", "L3"}
 )
 
-// quantityName is a reading's quantity and point in words: "velocity
-// pressure, point 26", "volts, L1–L2", "valve ΔP".
+// quantityName is a reading's quantity and point in words: "VP, point 26",
+// "volts, L1–L2", "valve ΔP".
 func quantityName(kind, q string, point int, valve bool) string {
 	name, ok := quantityNames[kind][q]
 	if !ok {

@@ -26,9 +26,9 @@ func (d *doc) readingLog() {
 		"from its neighbours.", d.count(len(rs))), "", sizeBody)
 	lg := newLogIndex(rs)
 	labels := schema.UnitLabels()
-	t := d.newTable(column{head: "Taken", w: 1.75}, column{head: "On", w: 1.15}, column{head: "Reading", w: 1.8},
-		column{head: "Stage", w: 0.9}, column{head: "Value", w: 1.2, align: "R"}, column{head: "Instrument", w: 1.75},
-		column{head: "By", w: 1.05}, column{head: "Status and remarks", w: 2.95})
+	t := d.newTable(column{head: "Taken", w: 1.75}, column{head: "On", w: 1.15}, column{head: "Reading", w: 1.7},
+		column{head: "Stage", w: 0.9}, column{head: "Value", w: 1.45, align: "R"}, column{head: "Instrument", w: 1.75},
+		column{head: "By", w: 1.2}, column{head: "Status and remarks", w: 2.65})
 	t.strong = func(col int, s string) bool { return col == 7 && strings.HasPrefix(s, "counts") }
 	for i := range rs {
 		r := &rs[i]

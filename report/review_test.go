@@ -120,7 +120,7 @@ func TestRenderReviewFixes(t *testing.T) {
 		// A heating coil in MBH, no tons.
 		"(" + norm(u.capAlt(wr.Capacity.Capacity, false)) + ") heating",
 		// Trade words in the reading log.
-		"velocity pressure, point 1", "volts, L1–L2", "amps, L3", "entering dry bulb", "valve ΔP", "fan speed", "hood reading",
+		"VP, point 1", "volts, L1–L2", "amps, L3", "entering dry bulb", "valve ΔP", "fan speed", "hood reading",
 		"entering water",
 		// An undetermined capacity: where it lies, and why it is undetermined.
 		pm(u.pct(*ct.PercentOfExpected), u.pct(*ct.PercentOfExpectedUncertainty)) +
