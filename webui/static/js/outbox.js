@@ -7,6 +7,9 @@ import { store } from './store.js';
 
 const rows = new Map(); // id → row, the in-memory copy of the outbox store
 const listeners = new Set();
+// Entries delivered and dropped this session: the history shows them even
+// when no redraw caught them in the outbox (a void is in no job view).
+const delivered = new Map();
 let kick = () => {};
 
 // newUUID: a v4 UUID (crypto.randomUUID needs a secure context; LAN http is not).
@@ -168,8 +171,13 @@ export const outbox = {
     }
     if (!ids.length) return;
     await store.outboxWrite([], ids);
-    for (const id of ids) rows.delete(id);
+    for (const id of ids) { delivered.set(id, rows.get(id)); rows.delete(id); }
     notify();
+  },
+
+  // deliveredFor: this session's delivered entries of one subject.
+  deliveredFor(jobId, kind, id) {
+    return [...delivered.values()].filter((r) => r.job === jobId && r.reading.subject_kind === kind && r.reading.subject_id === id);
   },
 
   // resend: sent entries back to waiting when the server run changed (it may

@@ -139,7 +139,6 @@ export function entryLabel(ctx, r) {
 }
 
 const all = new Map(); // job → {list, at, err}: every reading, as GET /readings gives them
-const seen = new Map(); // this device's entries, once the outbox has dropped them
 
 async function loadAll(ctx) {
   const job = ctx.jobId, m = all.get(job) || {};
@@ -161,8 +160,8 @@ function known(ctx, kind, id) {
   for (const e of mine) if (e.state !== 'sent') add(e.reading, e.state);
   for (const r of (all.get(ctx.jobId) || {}).list || []) add(r, 'stored');
   for (const r of live(ctx).snapshot.readings || []) add(r, 'stored');
-  for (const e of mine) { add(e.reading, e.state); seen.set(e.id, e.reading); }
-  for (const r of seen.values()) add(r, 'stored');
+  for (const e of mine) add(e.reading, e.state);
+  for (const e of ctx.outbox.deliveredFor(ctx.jobId, kind, id)) add(e.reading, 'stored');
   return [...m.values()];
 }
 
