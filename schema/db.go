@@ -52,6 +52,7 @@ type DB struct {
 	readings readingGroup
 
 	bootID  string
+	epoch   string // see epoch.go
 	durable durableSeqs
 	files   heldFiles // descriptors Sync uses; see heldFiles
 }
@@ -78,6 +79,10 @@ func Open(ctx context.Context, path string) (*DB, error) {
 		return nil, err
 	}
 	if err := db.migrate(ctx); err != nil {
+		db.write.Close()
+		return nil, err
+	}
+	if err := db.beginEpoch(ctx); err != nil {
 		db.write.Close()
 		return nil, err
 	}
@@ -151,6 +156,7 @@ func (db *DB) Close() error {
 	if db.stopCkpt != nil {
 		close(db.stopCkpt)
 		<-db.ckptDone
+		errs = append(errs, db.endEpoch())
 		// Fold the WAL into the main file so a copied .db is whole on its own.
 		_, err := db.ckpt.Exec("PRAGMA wal_checkpoint(TRUNCATE)")
 		errs = append(errs, err, db.ckpt.Close())

@@ -16,6 +16,7 @@ const (
 	Conflict     Code = "conflict"
 	Unauthorized Code = "unauthorized"
 	Forbidden    Code = "forbidden"
+	Gone         Code = "gone" // a cursor from a history of the store that is no more
 	Internal     Code = "internal"
 )
 

@@ -41,6 +41,8 @@ func statusOf(err error) int {
 		return http.StatusUnauthorized
 	case schema.Forbidden:
 		return http.StatusForbidden
+	case schema.Gone:
+		return http.StatusGone
 	}
 	return http.StatusInternalServerError
 }

@@ -45,6 +45,7 @@ func (s *Server) handleJobCreate(w http.ResponseWriter, r *http.Request) {
 // readings (superseded and void ones left out), and every figure measure
 // derives from them.
 type jobView struct {
+	Epoch    string           `json:"epoch"` // the history job.seq belongs to; send it back with changes
 	Job      schema.Job       `json:"job"`
 	Snapshot *schema.Snapshot `json:"snapshot"`
 	Results  *schema.Results  `json:"results"`
@@ -68,7 +69,7 @@ func (s *Server) handleJobGet(w http.ResponseWriter, r *http.Request) {
 	}
 	// After ComputeResults, which picks the current readings itself.
 	snap.Readings = schema.CurrentReadings(snap.Readings)
-	writeJSON(w, http.StatusOK, jobView{Job: snap.Job, Snapshot: snap, Results: res})
+	writeJSON(w, http.StatusOK, jobView{Epoch: s.DB.Epoch(), Job: snap.Job, Snapshot: snap, Results: res})
 }
 
 // handleJobUpdate replaces the job's fields. The path names the job; a body
@@ -99,6 +100,9 @@ type changesView struct {
 
 func (s *Server) handleJobChanges(w http.ResponseWriter, r *http.Request) {
 	since, err := sinceParam(r)
+	if err == nil {
+		err = s.DB.CheckEpoch(r.URL.Query().Get("epoch"))
+	}
 	if err != nil {
 		s.writeError(w, r, err)
 		return

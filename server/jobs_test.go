@@ -161,4 +161,19 @@ func TestJobChanges(t *testing.T) {
 	t.Run("ErrUnknownJob", func(t *testing.T) {
 		want(t, ts.do(t, "GET", "/jobs/"+schema.NewID()+"/changes?since=0", ts.tech, nil), 404, "")
 	})
+	t.Run("EpochOfThisHistory", func(t *testing.T) {
+		var v struct{ Epoch string }
+		ts.do(t, "GET", "/jobs/"+f.job, ts.tech, nil).decode(t, &v)
+		if v.Epoch != ts.db.Epoch() || v.Epoch == "" {
+			t.Fatalf("job's epoch %q, store's %q", v.Epoch, ts.db.Epoch())
+		}
+		want(t, ts.do(t, "GET", path+"?since=0&epoch="+v.Epoch, ts.tech, nil), 200, "")
+	})
+	t.Run("ErrEpochOfLostHistory", func(t *testing.T) {
+		r := ts.do(t, "GET", path+"?since=0&epoch=0123456789abcdef", ts.tech, nil)
+		want(t, r, 410, "epoch")
+		if !strings.Contains(r.errText(), "fetch the whole job") {
+			t.Errorf("410 says %q: want it to say to reload", r.errText())
+		}
+	})
 }

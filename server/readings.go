@@ -38,10 +38,11 @@ type readingsResponse struct {
 type durability struct {
 	BootID     string `json:"boot_id"`
 	DurableSeq int64  `json:"durable_seq"`
+	Epoch      string `json:"epoch"` // the store's history the change numbers belong to
 }
 
 func (s *Server) durability(job string) durability {
-	return durability{BootID: s.DB.BootID(), DurableSeq: s.DB.DurableSeq(job)}
+	return durability{BootID: s.DB.BootID(), DurableSeq: s.DB.DurableSeq(job), Epoch: s.DB.Epoch()}
 }
 
 // handleReadingsCreate stores a batch in one transaction. A reading that does

@@ -2,7 +2,7 @@
 // page load refreshes the list in the background, at most once a minute. API
 // answers are never cached (job data is in IndexedDB). Secure contexts only.
 
-const VERSION = 'fieldtab-app-v17'; // bump when the list or the caching changes
+const VERSION = 'fieldtab-app-v18'; // bump when the list or the caching changes
 const REFRESH_MS = 60000;
 let refreshedAt = 0; // in memory: a restarted worker refreshes on the next load
 

@@ -169,11 +169,13 @@ async function pull(j, gen) {
   if (!view || !seq) { await full(j, gen); return; }
   let ch;
   try {
-    ch = await api.get(`/jobs/${enc(j)}/changes?since=${seq}`);
+    const epoch = view.epoch ? `&epoch=${enc(view.epoch)}` : '';
+    ch = await api.get(`/jobs/${enc(j)}/changes?since=${seq}${epoch}`);
   } catch (e) {
-    if (e.status === 409) {
-      // The server is behind us (restored, or another server): fetch it all
-      // and send every entry we still hold again.
+    if (e.status === 409 || e.status === 410) {
+      // Our cursor is from a history the store no longer has (it lost its
+      // last changes, was restored, or is another server): fetch it all and
+      // send every entry we still hold again.
       check(gen);
       await outbox.resend(j, null);
       again = true;
@@ -185,6 +187,7 @@ async function pull(j, gen) {
   check(gen);
   contact();
   await acknowledge(j, ch);
+  if (ch.epoch && view.epoch && ch.epoch !== view.epoch) { await full(j, gen); return; }
   const changed = ch.seq !== seq || Object.values(ch).some((v) => Array.isArray(v) && v.length > 0);
   if (changed) await full(j, gen);
   await confirm(j, ch);
