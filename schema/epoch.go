@@ -52,9 +52,14 @@ func (db *DB) beginEpoch(ctx context.Context) error {
 	})
 }
 
-// endEpoch marks a clean close: everything committed is in the file.
+// endEpoch marks a clean close: everything committed is in the file. It
+// writes back this run's own epoch, because a command run beside the server
+// (job new, join-code) opens the store too and, finding it open, starts an
+// epoch no device has seen: the server's clean stop should not make its
+// devices reload. A lost tail takes this last frame with it, never only what
+// came before it (WAL frames are chained), so a mark that survives is true.
 func (db *DB) endEpoch() error {
-	_, err := db.write.Exec("UPDATE store_history SET open = 0 WHERE id = 1")
+	_, err := db.write.Exec("UPDATE store_history SET open = 0, epoch = ? WHERE id = 1", db.epoch)
 	return err
 }
 

@@ -47,6 +47,22 @@ func TestEpoch(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
+	// A command run beside the server opens the store and closes it: the
+	// server's own clean close still keeps its epoch for the next start.
+	d := open(path)
+	e := open(path)
+	if err := e.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if err := d.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if f := open(path); f.Epoch() != d.Epoch() {
+		t.Errorf("server %s closed cleanly after a command %s: reopened as %s", d.Epoch(), e.Epoch(), f.Epoch())
+		f.Close()
+	} else if err := f.Close(); err != nil {
+		t.Fatal(err)
+	}
 	r := open(backup)
 	defer r.Close()
 	if r.Epoch() == first || r.Epoch() == c.Epoch() {
